@@ -1,0 +1,64 @@
+"""sequencecheck: check half-bridge gate sequences for shoot-through, dead-time and mode faults.
+
+Time inside is exact integer picoseconds. Typical use::
+
+    import sequencecheck as sc
+    report = sc.check("capture.csv", sc.Bridge((sc.Leg("A", "AH", "AL"),)),
+                      sc.Policy(dead_time=sc.DeadTime.both(sc.parse_duration("500ns"))))
+    report.exit_status()
+"""
+
+__version__ = "0.1.0"
+
+# api
+from .api import check, check_file, check_trace
+
+# errors
+from .errors import InputError, SequenceCheckError, UsageError
+
+# findings
+from .findings import Certainty, Finding, InputReport, LegStats, Report, Severity, WorstMargin
+
+# model
+from .model import Bridge, Channel, DeadTime, Direction, Leg, Level, Policy, Source, Trace
+
+# readers
+from .readers import read, read_csv
+
+# rules
+from .rules import RULES, run
+
+# units
+from .units import format_time, parse_duration
+
+__all__ = [
+    "RULES",
+    "Bridge",
+    "Certainty",
+    "Channel",
+    "DeadTime",
+    "Direction",
+    "Finding",
+    "InputError",
+    "InputReport",
+    "Leg",
+    "LegStats",
+    "Level",
+    "Policy",
+    "Report",
+    "SequenceCheckError",
+    "Severity",
+    "Source",
+    "Trace",
+    "UsageError",
+    "WorstMargin",
+    "__version__",
+    "check",
+    "check_file",
+    "check_trace",
+    "format_time",
+    "parse_duration",
+    "read",
+    "read_csv",
+    "run",
+]

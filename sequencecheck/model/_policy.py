@@ -1,0 +1,49 @@
+"""What is required of a bridge: the limits the rules check against."""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass, field
+
+from ._bridge import Direction
+
+__all__ = ["DeadTime", "Policy"]
+
+
+@dataclass(frozen=True, slots=True)
+class DeadTime:
+    """Least dead time for each hand-over direction of a leg, in picoseconds."""
+
+    high_to_low_ps: int = 0
+    low_to_high_ps: int = 0
+
+    @classmethod
+    def both(cls, ps: int) -> DeadTime:
+        return cls(ps, ps)
+
+    def for_direction(self, direction: Direction) -> int:
+        if direction is Direction.HIGH_TO_LOW:
+            return self.high_to_low_ps
+        return self.low_to_high_ps
+
+
+@dataclass(frozen=True)
+class Policy:
+    """Requirements; ``None`` means "not required", so the rule measures but never fails.
+
+    ``dead_time`` applies to every leg not named in ``dead_time_by_leg``.
+    ``transitions`` is the mode-transition policy (modes features); ``bootstrap``
+    the bootstrap limits (physical-timing features).
+    """
+
+    dead_time: DeadTime | None = None
+    dead_time_by_leg: Mapping[str, DeadTime] = field(default_factory=dict)
+    min_pulse_ps: int | None = None
+    reversal_dwell_ps: int | None = None
+    require_margin_ps: int | None = None
+    transitions: object | None = None
+    bootstrap: object | None = None
+    strict: bool = False
+
+    def dead_time_for(self, leg: str) -> DeadTime | None:
+        return self.dead_time_by_leg.get(leg, self.dead_time)

@@ -1,0 +1,319 @@
+"""CSV captures: one row per sample or one row per change, read in bounded chunks.
+
+The first row names the columns; the time column is the first unless named.
+Each row's values hold until the next row's time.
+
+>>> import io, tempfile, os
+>>> p = os.path.join(tempfile.mkdtemp(), "t.csv")
+>>> _ = open(p, "w").write("time_ns,AH,AL\\n0,0,1\\n100,0,0\\n200,1,0\\n")
+>>> tr = read_csv(p)
+>>> tr.channel("AH").times.tolist(), tr.sample_period_ps
+([200000], 100000)
+"""
+
+from __future__ import annotations
+
+import csv
+import os
+import re
+from collections.abc import Iterator, Sequence
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..errors import InputError, UsageError
+from ..model import Channel, Trace
+from ..units import unit_scale
+
+__all__ = ["CsvLayout", "read_csv", "sniff_layout"]
+
+_UNIT_IN_NAME = re.compile(
+    r"(?:[\s_\-]*[\(\[]\s*|[_\-\s])(s|ms|us|µs|μs|ns|ps)\s*[\)\]]?\s*$", re.I
+)
+BLOCK_BYTES = 4 << 20
+
+
+@dataclass(frozen=True, slots=True)
+class CsvLayout:
+    """What the header says: delimiter, column names, time column and its scale."""
+
+    delimiter: str
+    names: tuple[str, ...]
+    time_index: int
+    ps_per_tick: int | None  # exact picoseconds per time unit, or None for a sample index
+    sample_period_ps: int | None  # set when the time column is a sample index
+    header_bytes: int
+
+
+def _open_error(path: str) -> InputError:
+    if not os.path.exists(path):
+        return InputError("no such file", path=path)
+    if os.path.isdir(path):
+        return InputError("is a folder, expected a CSV file", path=path)
+    return InputError("cannot be read (permission?)", path=path)
+
+
+def sniff_layout(
+    path: str,
+    *,
+    time_column: str | None = None,
+    time_unit: str | None = None,
+    sample_rate_hz: float | None = None,
+) -> CsvLayout:
+    """Read the header line and decide how the rest of the file is read."""
+    try:
+        with open(path, "rb") as f:
+            head = f.readline(1 << 20)
+    except OSError:
+        raise _open_error(path) from None
+    if not head.strip():
+        raise InputError(
+            "empty file, expected a header row such as 'time,AH,AL'", path=path, line=1
+        )
+    bom = head.startswith(b"\xef\xbb\xbf")
+    try:
+        text = head[3 if bom else 0 :].decode("utf-8").rstrip("\r\n")
+    except UnicodeDecodeError:
+        raise InputError(
+            "header is not UTF-8 text; is this a CSV file?", path=path, line=1
+        ) from None
+    delimiter = max((",", ";", "\t"), key=text.count)
+    names = tuple(n.strip() for n in next(csv.reader([text], delimiter=delimiter)))
+    if len(names) < 2:
+        raise InputError("header needs a time column and at least one channel", path=path, line=1)
+    if len(set(names)) != len(names):
+        dup = next(n for n in names if names.count(n) > 1)
+        raise InputError(f"column {dup!r} appears twice in the header", path=path, line=1)
+    if time_column is None:
+        time_index = 0
+    elif time_column in names:
+        time_index = names.index(time_column)
+    else:
+        raise InputError(
+            f"no time column {time_column!r} in the header (columns: {', '.join(names)})",
+            path=path,
+            line=1,
+        )
+    ps_per_tick: int | None
+    sample_period_ps = None
+    if sample_rate_hz is not None:
+        if not sample_rate_hz > 0:
+            raise UsageError(f"--sample-rate must be a positive frequency, not {sample_rate_hz}")
+        ps_per_tick = None
+        sample_period_ps = round(1e12 / sample_rate_hz)
+    elif time_unit is not None:
+        ps_per_tick = unit_scale(time_unit)
+    else:
+        m = _UNIT_IN_NAME.search(names[time_index])
+        ps_per_tick = unit_scale(m.group(1).lower()) if m else unit_scale("s")
+    return CsvLayout(delimiter, names, time_index, ps_per_tick, sample_period_ps, len(head))
+
+
+def _arrow_batches(path: str, layout: CsvLayout, columns: Sequence[str]) -> Iterator[object]:
+    import pyarrow as pa
+    import pyarrow.csv as pacsv
+
+    time_name = layout.names[layout.time_index]
+    types = {name: pa.int8() for name in columns}
+    types[time_name] = pa.int64() if layout.ps_per_tick is None else pa.float64()
+    reader = pacsv.open_csv(
+        path,
+        read_options=pacsv.ReadOptions(
+            column_names=list(layout.names), skip_rows=1, block_size=BLOCK_BYTES, use_threads=True
+        ),
+        parse_options=pacsv.ParseOptions(delimiter=layout.delimiter, ignore_empty_lines=False),
+        convert_options=pacsv.ConvertOptions(
+            column_types=types,
+            include_columns=[time_name, *columns],
+            strings_can_be_null=False,
+            quoted_strings_can_be_null=False,
+        ),
+    )
+    yield from reader
+
+
+def _numpy(col: object, dtype: type) -> np.ndarray:
+    """A pyarrow column as numpy without pyarrow's pandas-importing to_numpy()."""
+    chunks = col.chunks if hasattr(col, "chunks") else [col]  # type: ignore[attr-defined]
+    parts = []
+    for arr in chunks:
+        if arr.null_count:
+            raise ValueError("null")
+        buf = arr.buffers()[1]
+        parts.append(np.frombuffer(buf, dtype=dtype, count=len(arr) + arr.offset)[arr.offset :])
+    return parts[0] if len(parts) == 1 else np.concatenate(parts)
+
+
+def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputError:
+    """Walk the file in pure Python to name the first bad row, after the fast path failed."""
+    idx = [layout.names.index(c) for c in columns]
+    time_name = layout.names[layout.time_index]
+    with open(path, newline="", encoding="utf-8-sig", errors="replace") as f:
+        reader = csv.reader(f, delimiter=layout.delimiter)
+        next(reader, None)
+        for row in reader:
+            line = reader.line_num
+            if len(row) != len(layout.names):
+                what = "an empty row" if not row else f"{len(row)} fields"
+                return InputError(
+                    f"expected {len(layout.names)} fields ({', '.join(layout.names)}), found {what}",
+                    path=path,
+                    line=line,
+                )
+            t = row[layout.time_index].strip()
+            try:
+                if layout.ps_per_tick is None:
+                    int(t)
+                else:
+                    float(t)
+            except ValueError:
+                kind = "a sample index" if layout.ps_per_tick is None else "a number"
+                return InputError(
+                    f"column {time_name!r}: expected {kind}, found {t!r}", path=path, line=line
+                )
+            for i, name in zip(idx, columns, strict=True):
+                v = row[i].strip()
+                if v not in ("0", "1"):
+                    return InputError(
+                        f"column {name!r}: expected 0 or 1, found {v!r}", path=path, line=line
+                    )
+    return InputError("could not be read as CSV (no bad row found; is it truncated?)", path=path)
+
+
+class _EdgeCollector:
+    """Turns consecutive chunks of one channel's samples into edges, carrying the last value."""
+
+    def __init__(self) -> None:
+        self.initial: int | None = None
+        self.last: int = 0
+        self.times: list[np.ndarray] = []
+        self.levels: list[np.ndarray] = []
+        self.lines: list[np.ndarray] = []
+
+    def feed(self, values: np.ndarray, times: np.ndarray, first_line: int) -> None:
+        if self.initial is None:
+            self.initial = self.last = int(values[0])
+        prev = np.empty_like(values)
+        prev[0] = self.last
+        prev[1:] = values[:-1]
+        idx = np.flatnonzero(values != prev)
+        if idx.size:
+            self.times.append(times[idx])
+            self.levels.append(values[idx].copy())
+            self.lines.append(idx.astype(np.int64) + first_line)
+        self.last = int(values[-1])
+
+    def channel(self, name: str) -> Channel:
+        def cat(parts: list[np.ndarray], dtype: type) -> np.ndarray:
+            return np.concatenate(parts) if parts else np.empty(0, dtype=dtype)
+
+        return Channel.from_changes(
+            name,
+            self.initial or 0,
+            cat(self.times, np.int64),
+            cat(self.levels, np.int8),
+            cat(self.lines, np.int64),
+        )
+
+
+def read_csv(
+    path: str,
+    *,
+    channels: Sequence[str] | None = None,
+    time_column: str | None = None,
+    time_unit: str | None = None,
+    sample_rate_hz: float | None = None,
+) -> Trace:
+    """Read a CSV capture into a Trace of the named channels (default: every column).
+
+    Memory is bounded by the number of edges: rows are parsed in blocks and
+    only changes are kept. Raises InputError naming the row of any bad value.
+    """
+    path = os.fspath(path)
+    layout = sniff_layout(
+        path, time_column=time_column, time_unit=time_unit, sample_rate_hz=sample_rate_hz
+    )
+    time_name = layout.names[layout.time_index]
+    wanted = [n for n in layout.names if n != time_name] if channels is None else list(channels)
+    for name in wanted:
+        if name not in layout.names or name == time_name:
+            raise InputError(
+                f"no channel {name!r} in the header (columns: {', '.join(layout.names)})",
+                path=path,
+                line=1,
+            )
+    collectors = {name: _EdgeCollector() for name in wanted}
+    rows = 0
+    first_t = last_t = None
+    min_step = max_step = None
+    try:
+        for batch in _arrow_batches(path, layout, wanted):
+            n = batch.num_rows  # type: ignore[attr-defined]
+            if n == 0:
+                continue
+            first_line = rows + 2
+            raw = batch.column(0)  # type: ignore[attr-defined]
+            if layout.ps_per_tick is None:
+                t = _numpy(raw, np.int64) * np.int64(layout.sample_period_ps)
+            else:
+                tf = _numpy(raw, np.float64)
+                if not np.isfinite(tf).all():
+                    bad = int(np.flatnonzero(~np.isfinite(tf))[0])
+                    raise InputError(
+                        f"column {time_name!r}: expected a finite time, found {tf[bad]}",
+                        path=path,
+                        line=first_line + bad,
+                    )
+                t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
+            steps = np.diff(t) if last_t is None else np.diff(t, prepend=last_t)
+            if steps.size:
+                if steps.min() < 0:
+                    bad = int(np.flatnonzero(steps < 0)[0]) + (1 if last_t is None else 0)
+                    raise InputError(
+                        f"time goes backwards (column {time_name!r}); expected non-decreasing time",
+                        path=path,
+                        line=first_line + bad,
+                    )
+                lo, hi = int(steps.min()), int(steps.max())
+                min_step = lo if min_step is None else min(min_step, lo)
+                max_step = hi if max_step is None else max(max_step, hi)
+            if first_t is None:
+                first_t = int(t[0])
+            last_t = int(t[-1])
+            for i, name in enumerate(wanted, start=1):
+                v = _numpy(batch.column(i), np.int8)  # type: ignore[attr-defined]
+                if (v.view(np.uint8) > 1).any():
+                    bad = int(np.flatnonzero(v.view(np.uint8) > 1)[0])
+                    raise InputError(
+                        f"column {name!r}: expected 0 or 1, found {int(v[bad])}",
+                        path=path,
+                        line=first_line + bad,
+                    )
+                collectors[name].feed(v, t, first_line)
+            rows += n
+    except InputError:
+        raise
+    except Exception:  # pyarrow's parse/convert errors carry no row: find it ourselves
+        raise _diagnose(path, layout, wanted) from None
+    if rows == 0 or first_t is None or last_t is None:
+        raise InputError("header only, expected rows of data after it", path=path, line=2)
+    period = layout.sample_period_ps
+    uniform = (
+        min_step is not None
+        and max_step is not None
+        and min_step > 0
+        and max_step - min_step <= max(2, min_step // 1000)  # float rounding of time text
+    )
+    if period is None and uniform:
+        period = max_step  # uniformly spaced rows are samples
+    end = last_t + (period or 0)
+    return Trace(
+        channels={name: c.channel(name) for name, c in collectors.items()},
+        start_ps=first_t,
+        end_ps=end,
+        path=path,
+        sample_period_ps=period,
+        rows=rows,
+        kind="csv-sampled" if period else "csv-changes",
+        meta={"time_column": time_name, "columns": layout.names},
+    )

@@ -1,0 +1,21 @@
+"""Reporters turn a Report into text; they compute nothing."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+from ..findings import Report
+from ._json import render_json
+from ._text import render_text
+
+__all__ = ["REPORTERS", "render"]
+
+#: Format name -> renderer. Renderers take the Report (and keyword options) and return str.
+REPORTERS: dict[str, Callable[..., str]] = {
+    "text": render_text,
+    "json": render_json,
+}
+
+
+def render(report: Report, fmt: str, **options: object) -> str:
+    return REPORTERS[fmt](report, **options)

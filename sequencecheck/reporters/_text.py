@@ -1,0 +1,109 @@
+"""Text report for people: a per-leg summary table, then findings in time order."""
+
+from __future__ import annotations
+
+from ..findings import Certainty, DirectionStats, Finding, InputReport, Report
+from ..units import format_time
+
+__all__ = ["render_text"]
+
+_RED, _YELLOW, _GREEN, _BOLD, _RESET = "\x1b[31m", "\x1b[33m", "\x1b[32m", "\x1b[1m", "\x1b[0m"
+
+
+class _Paint:
+    def __init__(self, colour: bool) -> None:
+        self.colour = colour
+
+    def __call__(self, code: str, text: str) -> str:
+        return f"{code}{text}{_RESET}" if self.colour else text
+
+
+def _table(rows: list[list[str]]) -> list[str]:
+    widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
+    out = []
+    for n, row in enumerate(rows):
+        out.append("  " + "  ".join(c.ljust(w) for c, w in zip(row, widths, strict=True)).rstrip())
+        if n == 0:
+            out.append("  " + "  ".join("-" * w for w in widths))
+    return out
+
+
+def _direction(d: DirectionStats) -> tuple[str, str]:
+    if d.count == 0 or d.min_gap_ps is None:
+        return "0", "-"
+    at = f"{format_time(d.min_gap_ps)} @ {format_time(d.min_gap_at_ps or 0)}"
+    return str(d.count), at
+
+
+def _finding_line(f: Finding, paint: _Paint) -> str:
+    where = f"  ({f.sources[-1]})" if f.sources and f.sources[-1].line else ""
+    margin = "" if f.margin_ps is None else f"  margin {format_time(f.margin_ps)}"
+    tag = "" if f.certainty is Certainty.PROVEN else "  [inconclusive at this sample rate]"
+    colour = _RED if f.is_violation else _YELLOW
+    return (
+        f"  {format_time(f.start_ps):>16}  {paint(colour, f.rule)}  {f.message}{margin}{tag}{where}"
+    )
+
+
+def _input_block(r: InputReport, paint: _Paint) -> list[str]:
+    if r.error is not None:
+        return [paint(_BOLD, r.input), f"  {paint(_RED, 'not checked')}: {r.error}", ""]
+    sampled = f", sample period {format_time(r.sample_period_ps)}" if r.sample_period_ps else ""
+    lines = [
+        paint(_BOLD, r.input),
+        f"  checked {r.rows:,} rows, {r.edges:,} edges, {format_time(r.start_ps)} to "
+        f"{format_time(r.end_ps)} ({r.kind}{sampled}); channels: {', '.join(r.channels)}",
+    ]
+    if r.leg_stats:
+        rows = [
+            [
+                "leg",
+                "high->low",
+                "min dead time (high off -> low on)",
+                "low->high",
+                "min dead time (low off -> high on)",
+                "violations",
+            ]
+        ]
+        for s in r.leg_stats:
+            n_hl, m_hl = _direction(s.high_to_low)
+            n_lh, m_lh = _direction(s.low_to_high)
+            count = sum(1 for f in r.violations if f.leg == s.leg)
+            rows.append([s.leg, n_hl, m_hl, n_lh, m_lh, str(count)])
+        lines += _table(rows)
+    if r.margins:
+        lines.append(
+            "  worst margins: "
+            + "; ".join(
+                f"{m.leg} {m.rule}{'' if m.kind == 'commanded' else ' (' + m.kind + ')'} "
+                f"{format_time(m.margin_ps)} @ {format_time(m.at_ps)}"
+                for m in r.margins
+            )
+        )
+    not_proven = sum(d.not_proven for s in r.leg_stats for d in (s.high_to_low, s.low_to_high))
+    if not_proven:
+        lines.append(
+            paint(_YELLOW, f"  {not_proven} clean hand-over(s) not proven at this sample rate")
+        )
+    if r.findings:
+        lines.append("  findings:")
+        lines += [_finding_line(f, paint) for f in r.findings]
+    lines.append("")
+    return lines
+
+
+def render_text(report: Report, *, colour: bool = False) -> str:
+    paint = _Paint(colour)
+    lines: list[str] = []
+    for r in report.inputs:
+        lines += _input_block(r, paint)
+    violations = report.violations
+    by_rule = ", ".join(f"{k} {v}" for k, v in sorted(report.by_rule().items()))
+    n_in = len(report.inputs)
+    if violations:
+        verdict = paint(_RED, f"{len(violations)} violation(s)") + f" ({by_rule})"
+    else:
+        verdict = paint(_GREEN, "no violations")
+    failed = f"; {len(report.errors)} input(s) could not be checked" if report.errors else ""
+    lines.append(f"{verdict} in {n_in} input(s){failed}")
+    return "\n".join(lines) + "\n"

@@ -1,0 +1,233 @@
+"""Shoot-through and dead-time: the conduction rules of a half-bridge leg."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from ..findings import Certainty, DirectionStats, Finding, LegStats, WorstMargin
+from ..model import DeadTime, Direction, Leg, Source
+from ..units import format_time
+from ._base import CheckContext, Rule, RuleResult
+from ._intervals import Intervals, intersect
+
+__all__ = ["DEAD_TIME", "SHOOT_THROUGH", "Handovers", "handovers"]
+
+
+@dataclass(frozen=True, slots=True)
+class Handovers:
+    """Complementary hand-overs in one direction: the complement turns off, then the
+    switch turns on with no other turn-on or turn-off of the switch in between.
+
+    ``off_ps``/``on_ps`` are the turn-off and turn-on times, ``gap_ps`` their
+    difference; ``off_lines``/``on_lines`` the input lines of those edges.
+    """
+
+    direction: Direction
+    off_ps: np.ndarray
+    on_ps: np.ndarray
+    off_lines: np.ndarray
+    on_lines: np.ndarray
+
+    @property
+    def gap_ps(self) -> np.ndarray:
+        return self.on_ps - self.off_ps
+
+
+def handovers(turning_on: Intervals, turning_off: Intervals, direction: Direction) -> Handovers:
+    """Every turn-on of one switch whose latest preceding event is the complement's
+    turn-off. Turn-ons while the complement still conducts are shoot-through, not
+    hand-overs, and are left out here.
+    """
+    idx, on_t = turning_on.edge_starts()
+    _, off_t = turning_off.edge_ends()
+    j = np.searchsorted(off_t, on_t, side="right") - 1  # latest complement turn-off <= on
+    k = np.searchsorted(turning_off.starts, on_t, side="right") - 1  # complement interval
+    complement_on = (k >= 0) & (turning_off.ends[np.maximum(k, 0)] > on_t)
+    prev_own_off = np.where(
+        idx > 0, turning_on.ends[np.maximum(idx - 1, 0)], np.iinfo(np.int64).min
+    )
+    off_at = off_t[np.maximum(j, 0)] if off_t.size else np.zeros_like(on_t)
+    valid = (j >= 0) & ~complement_on & (off_at >= prev_own_off)
+    jv = j[valid]
+    return Handovers(
+        direction,
+        off_t[jv],
+        on_t[valid],
+        turning_off.end_lines[jv],
+        turning_on.start_lines[idx[valid]],
+    )
+
+
+def _src(path: str, *lines: int) -> tuple[Source, ...]:
+    return tuple(Source(path, int(n)) for n in lines if n)
+
+
+def _leg_handovers(ctx: CheckContext, leg: Leg) -> tuple[Handovers, Handovers]:
+    key = ("handovers", leg.name)
+    if key not in ctx.cache:
+        high, low = ctx.on(leg.high), ctx.on(leg.low)
+        ctx.cache[key] = (
+            handovers(low, high, Direction.HIGH_TO_LOW),
+            handovers(high, low, Direction.LOW_TO_HIGH),
+        )
+    return ctx.cache[key]
+
+
+def _check_shoot_through(ctx: CheckContext) -> RuleResult:
+    result = RuleResult()
+    trace, ts = ctx.trace, ctx.trace.sample_period_ps
+    for leg in ctx.bridge.legs:
+        high, low = ctx.on(leg.high), ctx.on(leg.low)
+        starts, ends, ih, il = intersect(high, low)
+        # the later turn-on opened the overlap, the earlier turn-off closed it
+        open_line = np.where(
+            high.starts[ih] >= low.starts[il], high.start_lines[ih], low.start_lines[il]
+        )
+        close_line = np.where(high.ends[ih] <= low.ends[il], high.end_lines[ih], low.end_lines[il])
+        for s, e, ol, cl in zip(
+            starts.tolist(), ends.tolist(), open_line.tolist(), close_line.tolist(), strict=True
+        ):
+            width = e - s
+            open_end = e == trace.end_ps and (high.clipped_end or low.clipped_end)
+            result.findings.append(
+                Finding(
+                    rule="shoot-through",
+                    leg=leg.name,
+                    channels=leg.channels,
+                    start_ps=s,
+                    end_ps=e,
+                    measured_ps=width,
+                    required_ps=0,
+                    input=trace.path,
+                    message=(
+                        f"leg {leg.name}: {leg.high} and {leg.low} both on for {format_time(width)}"
+                        + (" (still on when the capture ends)" if open_end else "")
+                    ),
+                    certainty=Certainty.PROVEN,
+                    bounds_ps=None if ts is None else (max(width - ts, 0), width + ts),
+                    sources=_src(trace.path, ol, cl),
+                    detail={"open_end": open_end},
+                    margin_ps=-width,
+                )
+            )
+        if starts.size:
+            worst = int(np.argmax(ends - starts))
+            width = int(ends[worst] - starts[worst])
+            result.margins.append(
+                WorstMargin("shoot-through", leg.name, -width, int(starts[worst]), width, 0)
+            )
+        else:
+            gaps = [h.gap_ps for h in _leg_handovers(ctx, leg) if h.gap_ps.size]
+            if gaps:
+                at = [
+                    h.on_ps[int(np.argmin(h.gap_ps))]
+                    for h in _leg_handovers(ctx, leg)
+                    if h.gap_ps.size
+                ]
+                mins = [int(g.min()) for g in gaps]
+                i = int(np.argmin(mins))
+                result.margins.append(
+                    WorstMargin("shoot-through", leg.name, mins[i], int(at[i]), mins[i], 0)
+                )
+    return result
+
+
+def _direction_stats(h: Handovers, required: int | None, ts: int | None) -> DirectionStats:
+    if h.gap_ps.size == 0:
+        return DirectionStats()
+    gaps = h.gap_ps
+    i = int(np.argmin(gaps))
+    not_proven = 0
+    if required is not None and ts is not None:
+        not_proven = int(np.count_nonzero((gaps >= required) & (gaps - ts < required)))
+    return DirectionStats(int(gaps.size), int(gaps[i]), int(h.on_ps[i]), not_proven)
+
+
+def _check_dead_time(ctx: CheckContext) -> RuleResult:
+    result = RuleResult()
+    trace, ts = ctx.trace, ctx.trace.sample_period_ps
+    for leg in ctx.bridge.legs:
+        need: DeadTime | None = ctx.policy.dead_time_for(leg.name)
+        per_direction = _leg_handovers(ctx, leg)
+        stats = {}
+        worst: WorstMargin | None = None
+        for h in per_direction:
+            required = None if need is None else need.for_direction(h.direction)
+            stats[h.direction] = _direction_stats(h, required, ts)
+            if required is None or h.gap_ps.size == 0:
+                continue
+            gaps = h.gap_ps
+            i = int(np.argmin(gaps))
+            if worst is None or int(gaps[i]) - required < worst.margin_ps:
+                worst = WorstMargin(
+                    "dead-time",
+                    leg.name,
+                    int(gaps[i]) - required,
+                    int(h.on_ps[i]),
+                    int(gaps[i]),
+                    required,
+                )
+            bad = np.flatnonzero(gaps < required)
+            off_ch, on_ch = (
+                (leg.high, leg.low) if h.direction is Direction.HIGH_TO_LOW else (leg.low, leg.high)
+            )
+            for n in bad.tolist():
+                off, on, gap = int(h.off_ps[n]), int(h.on_ps[n]), int(gaps[n])
+                proven = ts is None or gap + ts <= required
+                result.findings.append(
+                    Finding(
+                        rule="dead-time",
+                        leg=leg.name,
+                        channels=(off_ch, on_ch),
+                        start_ps=off,
+                        end_ps=on,
+                        measured_ps=gap,
+                        required_ps=required,
+                        input=trace.path,
+                        message=(
+                            f"leg {leg.name}: {on_ch} on {format_time(gap)} after {off_ch} off; "
+                            f"needs {format_time(required)}"
+                            + ("" if proven else " (inconclusive at this sample rate)")
+                        ),
+                        certainty=Certainty.PROVEN if proven else Certainty.INCONCLUSIVE,
+                        bounds_ps=None if ts is None else (gap - ts, gap + ts),
+                        sources=_src(trace.path, int(h.off_lines[n]), int(h.on_lines[n])),
+                        detail={"direction": str(h.direction)},
+                    )
+                )
+        result.leg_stats.append(
+            LegStats(
+                leg.name,
+                stats.get(Direction.HIGH_TO_LOW, DirectionStats()),
+                stats.get(Direction.LOW_TO_HIGH, DirectionStats()),
+            )
+        )
+        if worst is not None:
+            result.margins.append(worst)
+    result.findings.sort(key=lambda f: (f.start_ps, f.end_ps))
+    return result
+
+
+SHOOT_THROUGH = Rule(
+    id="shoot-through",
+    family="conduction",
+    summary="Both switches of a leg commanded on at the same time.",
+    help=(
+        "Never command the high and low side of one leg on together: make the turn-on of "
+        "each switch wait for the turn-off of its complement plus the dead time."
+    ),
+    check=_check_shoot_through,
+)
+
+DEAD_TIME = Rule(
+    id="dead-time",
+    family="conduction",
+    summary="A switch turned on less than the required dead time after its complement turned off.",
+    help=(
+        "Delay the turn-on edge (or advance the complement's turn-off) until the gap meets the "
+        "dead time the leg needs; derive that need from worst-case switch and driver delays."
+    ),
+    check=_check_dead_time,
+)
