@@ -4,6 +4,22 @@
 # _bridge
 from ._bridge import Bridge, Direction, Leg, Side
 
+# _modes
+from ._modes import (
+    All,
+    Any_,
+    Const,
+    Mode,
+    ModeExpr,
+    Not,
+    SwitchOn,
+    TransitionPolicy,
+    TransitionRule,
+)
+
+# _physics
+from ._physics import BootstrapSupply, SwitchTiming
+
 # _policy
 from ._policy import DeadTime, Policy
 from ._source import Source
@@ -12,15 +28,26 @@ from ._source import Source
 from ._trace import Channel, Level, Trace, normalize_edges
 
 __all__ = [
+    "All",
+    "Any_",
+    "BootstrapSupply",
     "Bridge",
     "Channel",
+    "Const",
     "DeadTime",
     "Direction",
     "Leg",
     "Level",
+    "Mode",
+    "ModeExpr",
+    "Not",
     "Policy",
     "Side",
     "Source",
+    "SwitchOn",
+    "SwitchTiming",
     "Trace",
+    "TransitionPolicy",
+    "TransitionRule",
     "normalize_edges",
 ]

@@ -39,9 +39,9 @@ class Bridge:
     """Legs in the order given, plus the polarity of every channel.
 
     ``active_low`` names channels whose logic 0 commands the switch on.
-    ``timing`` maps a channel to its switch timing model and ``bootstrap`` a leg
-    to its bootstrap supply (physical-timing features); ``modes`` holds named
-    bridge states (mode features). ``source`` is the file the bridge came from.
+    ``timing`` maps a channel to its SwitchTiming and ``bootstrap`` a leg name
+    to its BootstrapSupply; ``modes`` holds named bridge states (Mode), which
+    override the default state names. ``source`` is the file the bridge came from.
     """
 
     legs: tuple[Leg, ...]

@@ -32,8 +32,8 @@ class Policy:
     """Requirements; ``None`` means "not required", so the rule measures but never fails.
 
     ``dead_time`` applies to every leg not named in ``dead_time_by_leg``.
-    ``transitions`` is the mode-transition policy (modes features); ``bootstrap``
-    the bootstrap limits (physical-timing features).
+    ``transitions`` is a TransitionPolicy (None: the default policy for the
+    bridge's leg count); ``bootstrap`` holds bootstrap limits, if any.
     """
 
     dead_time: DeadTime | None = None
