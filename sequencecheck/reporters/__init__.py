@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from ..findings import Report
+from ._html import render_html
 from ._json import render_json
 from ._junit import render_junit
 from ._sarif import render_sarif
@@ -18,6 +19,7 @@ REPORTERS: dict[str, Callable[..., str]] = {
     "json": render_json,
     "junit": render_junit,
     "sarif": render_sarif,
+    "html": render_html,
 }
 
 
