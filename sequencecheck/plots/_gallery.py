@@ -139,6 +139,8 @@ def draw_report(
     without legs means legs guessed from channel names, as the check does).
     """
     formats = ("png", "svg") if out_dir is not None else ("svg",)
+    if out_dir is not None:
+        os.makedirs(out_dir, exist_ok=True)
     read_options = dict(read_options or {})
     diagrams: dict[tuple[int, int], Picture] = {}
     hists: dict[int, tuple[Picture, ...]] = {}
