@@ -164,3 +164,24 @@ def test_precommit_hook_definition():
         assert files.search(name), name
     for name in ("capture.csv", "notes.txt", "timing.py"):
         assert not files.search(name), name
+
+
+def test_without_matplotlib_html_has_tables_and_plots_exits_2(tmp_path, capsys, monkeypatch):
+    import builtins
+
+    real_import = builtins.__import__
+
+    def no_matplotlib(name, *args, **kwargs):
+        if name == "matplotlib" or name.startswith("matplotlib."):
+            raise ImportError(name)
+        return real_import(name, *args, **kwargs)
+
+    monkeypatch.setattr(builtins, "__import__", no_matplotlib)
+    out = tmp_path / "r.html"
+    status, _, err = _run(capsys, "check", FAULTY, "--dead-time", "500ns", "--format", "html",
+                          "--output", str(out))  # fmt: skip
+    assert status == 1
+    assert "matplotlib is not installed" in err
+    assert "Diagrams were not drawn" in out.read_text(encoding="utf-8")
+    err = _error_line(capsys, "check", FAULTY, "--plots", str(tmp_path / "p"))
+    assert "--plots needs matplotlib" in err

@@ -6,10 +6,11 @@ import re
 from pathlib import Path
 
 import pytest
-from conftest import SAMPLES, run_cli
+from conftest import SAMPLES
 from headless_chromium import Browser, find_chromium
 from report_factory import table_report
 
+from sequencecheck.cli import run
 from sequencecheck.reporters import REPORTERS, render
 from sequencecheck.reporters._html import CAUTION
 
@@ -27,11 +28,11 @@ def _nasty_capture(tmp_path: Path) -> Path:
 def _html_report(tmp_path: Path, *extra: str) -> tuple[Path, str]:
     src = _nasty_capture(tmp_path)
     out = tmp_path / "report.html"
-    r = run_cli(
-        "check", str(src), "--leg", f"A={NASTY},AL", "--leg", "B=BH,BL",
-        "--dead-time", "500ns", "--format", "html", "--output", str(out), *extra,
+    status = run(
+        ["check", str(src), "--leg", f"A={NASTY},AL", "--leg", "B=BH,BL",
+         "--dead-time", "500ns", "--format", "html", "--output", str(out), *extra]
     )  # fmt: skip
-    assert r.returncode == 1, r.stderr
+    assert status == 1
     return out, out.read_text(encoding="utf-8")
 
 

@@ -75,6 +75,19 @@ def draw_pictures(
     want_html = args.format == "html"
     if not args.plots and not want_html:
         return {}
+    try:
+        import matplotlib  # noqa: F401
+    except ImportError:
+        if args.plots:
+            raise UsageError(
+                "--plots needs matplotlib: python -m pip install 'sequencecheck[plot]'"
+            ) from None
+        print(
+            "sequencecheck: no diagrams in the HTML report: matplotlib is not installed "
+            "(python -m pip install 'sequencecheck[plot]')",
+            file=sys.stderr,
+        )
+        return {}
     from ..plots import draw_report
 
     figures = draw_report(
