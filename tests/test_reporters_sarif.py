@@ -143,3 +143,25 @@ def test_cli_sarif_on_the_demo_capture(tmp_path, validator):
         assert res["locations"][0]["physicalLocation"]["artifactLocation"]["uri"].startswith(
             "file:"
         )
+
+
+def test_paths_become_valid_uris(validator):
+    from dataclasses import replace
+
+    from sequencecheck.model import Source
+
+    report = table_report()
+    first = report.inputs[0]
+    f = replace(
+        first.findings[0],
+        input="/bench/pump run #2.csv",
+        sources=(Source("/bench/pump run #2.csv", 5), Source("tables/leg u.table", 9)),
+    )
+    report = replace(report, inputs=(replace(first, findings=(f,)),))
+    doc = _sarif(report)
+    _assert_valid(validator, doc)
+    (res,) = doc["runs"][0]["results"]
+    loc = res["locations"][0]["physicalLocation"]["artifactLocation"]
+    assert loc == {"uri": "file:///bench/pump%20run%20%232.csv"}
+    related = res["relatedLocations"][0]["physicalLocation"]["artifactLocation"]
+    assert related == {"uri": "tables/leg%20u.table", "uriBaseId": "%SRCROOT%"}

@@ -7,13 +7,14 @@ again here, only when pictures were asked for.
 
 from __future__ import annotations
 
+import contextlib
 import os
 import re
 from collections.abc import Mapping
 from dataclasses import dataclass, field, replace
 from typing import Any
 
-from ..errors import SequenceCheckError
+from ..errors import SequenceCheckError, UsageError
 from ..findings import Finding, InputReport, Report
 from ..legs import legs_or_guess
 from ..model import Bridge, Leg, Policy, Trace
@@ -116,10 +117,16 @@ def _write(out_dir: str | None, stem: str, pics: dict[str, bytes]) -> tuple[str,
 def _reread(
     r: InputReport, bridge: Bridge, read_options: Mapping[str, Any]
 ) -> tuple[Trace, Bridge]:
+    """Read the input again; legs as the check found them (given, carried by the input, or
+    guessed from channel names). Without legs, diagrams fall back to each finding's channels."""
     channels = list(bridge.channels) if bridge.legs else None
     trace = read(r.input, channels=channels, **read_options)
     if not bridge.legs:
-        bridge = replace(bridge, legs=legs_or_guess((), list(trace.channels), r.input))
+        carried = trace.meta.get("bridge")
+        if isinstance(carried, Bridge) and carried.legs:
+            return trace, carried
+        with contextlib.suppress(UsageError):  # no legs: findings' own channels are drawn
+            bridge = replace(bridge, legs=legs_or_guess((), list(trace.channels), r.input))
     return trace, bridge
 
 

@@ -57,6 +57,7 @@ figure { margin: .8rem 0 1.2rem; border: 1px solid var(--line); padding: .4rem; 
 figure svg { max-width: 100%; height: auto; display: block; }
 figcaption { color: var(--muted); font-size: .9rem; }
 .note { color: var(--muted); }
+.nw { white-space: nowrap; }
 .error { color: var(--bad); font-weight: 600; }
 footer { margin-top: 2.5rem; color: var(--muted); font-size: .85rem; }
 """
@@ -97,7 +98,7 @@ def _leg_table(r: InputReport, n: int, legs: Mapping[str, Any]) -> str:
         lh = _direction(s.low_to_high) if s else ("–", "–")
         margins = "<br>".join(
             f"{_e(m.rule)}{'' if m.kind == 'commanded' else ' (' + _e(m.kind) + ')'}: "
-            f"{_t(m.margin_ps)} at {_t(m.at_ps)}"
+            f"<span class=nw>{_t(m.margin_ps)}</span> at <span class=nw>{_t(m.at_ps)}</span>"
             for m in r.margins
             if m.leg == name
         )

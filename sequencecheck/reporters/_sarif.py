@@ -105,7 +105,11 @@ def _result(f: Finding, index: dict[str, int]) -> dict[str, Any]:
         result["ruleIndex"] = index[f.rule]
     if len(lined) > 1:
         result["relatedLocations"] = [
-            {"id": n, "physicalLocation": _physical(s), "message": {"text": "edge " + str(n + 1)}}
+            {
+                "id": n,
+                "physicalLocation": _physical(s),
+                "message": {"text": f"edge {n + 1} of {len(lined)} of this finding"},
+            }
             for n, s in enumerate(lined[1:], start=1)
         ]
     return result
