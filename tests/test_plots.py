@@ -119,7 +119,7 @@ def test_draw_report_writes_png_and_svg_with_values(tmp_path):
     texts = _texts(tmp_path / "cart_faulty_dead-time_A_001.svg")
     assert "measured 150 ns" in texts and "required 500 ns" in texts
     assert "A high: AH" in texts and "A low: AL" in texts
-    assert "time (µs) from 1.180 ms" in texts
+    assert "time (µs) from 1.180 ms; ticks: samples every 50 ns" in texts
     texts = _texts(tmp_path / "cart_faulty_shoot-through_A_001.svg")
     assert "overlap 100 ns" in texts
     hist = _texts(tmp_path / "cart_faulty_dead-time-histogram_A_high-to-low.svg")

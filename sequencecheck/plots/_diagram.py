@@ -26,6 +26,7 @@ __all__ = ["draw_timing"]
 
 _ROW = 1.6  # vertical distance between channel rows; a trace swings 0..1
 _ARROW_STEP = 0.75
+_MAX_SAMPLE_TICKS = 120  # mark sample instants when the window holds no more than this
 
 
 def _arrow(ax: Any, x0: float, x1: float, y: float, label: str, colour: str, dashed: bool) -> None:
@@ -138,7 +139,14 @@ def draw_timing(
         ax.tick_params(axis="y", length=0)
         ax.set_ylim(bottom - 0.4, y_max)
         ax.set_xlim(to_x(lo_ps), to_x(hi_ps))
-        ax.set_xlabel(f"time ({unit}) from {format_time(origin)}")
+        xlabel = f"time ({unit}) from {format_time(origin)}"
+        ts = trace.sample_period_ps
+        if ts and (hi_ps - lo_ps) // ts <= _MAX_SAMPLE_TICKS:
+            first = trace.start_ps + -(-(lo_ps - trace.start_ps) // ts) * ts
+            xs = [to_x(t) for t in range(first, hi_ps + 1, ts)]
+            ax.plot(xs, [bottom - 0.3] * len(xs), "|", color=INK, ms=5, mew=0.8, zorder=2)
+            xlabel += f"; ticks: samples every {format_time(ts)}"
+        ax.set_xlabel(xlabel)
         ax.spines["left"].set_visible(False)
         ax.grid(axis="x", color=PALE, lw=0.6)
         if title:
