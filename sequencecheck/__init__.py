@@ -32,7 +32,6 @@ from .rules import RULES, run
 from .units import format_time, parse_duration
 
 __all__ = [
-    "RULES",
     "Bridge",
     "Certainty",
     "Channel",
@@ -45,6 +44,7 @@ __all__ = [
     "LegStats",
     "Level",
     "Policy",
+    "RULES",
     "Report",
     "SequenceCheckError",
     "Severity",
