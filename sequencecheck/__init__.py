@@ -32,6 +32,7 @@ from .rules import RULES, run
 from .units import format_time, parse_duration
 
 __all__ = [
+    "RULES",
     "Bridge",
     "Certainty",
     "Channel",
@@ -44,7 +45,6 @@ __all__ = [
     "LegStats",
     "Level",
     "Policy",
-    "RULES",
     "Report",
     "SequenceCheckError",
     "Severity",

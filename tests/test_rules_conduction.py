@@ -39,7 +39,7 @@ def test_shoot_through_interval_is_exact():
     tr = trace(
         {"AH": (0, [(1100 * NS, 1), (2000 * NS, 0)]), "AL": (1, [(1200 * NS, 0)])}, 3000 * NS
     )
-    (f,) = [f for f in check(tr).findings if f.rule == "shoot-through"]
+    (f,) = [f for f in check(tr).violations if f.rule == "shoot-through"]
     assert (f.start_ps, f.end_ps, f.measured_ps, f.margin_ps) == (
         1100 * NS,
         1200 * NS,
@@ -51,7 +51,7 @@ def test_shoot_through_interval_is_exact():
 def test_dead_time_finding_fields():
     # AH off at 1000 ns, AL on at 1150 ns: 150 ns dead time, 500 ns required
     tr = trace({"AH": (1, [(1000 * NS, 0)]), "AL": (0, [(1150 * NS, 1)])}, 2000 * NS)
-    (f,) = check(tr, dead_ns=500).findings
+    (f,) = check(tr, dead_ns=500).violations
     assert f.rule == "dead-time"
     assert (f.start_ps, f.end_ps, f.measured_ps, f.required_ps, f.margin_ps) == (
         1000 * NS,
@@ -66,13 +66,13 @@ def test_dead_time_finding_fields():
 
 def test_simultaneous_switching_is_zero_dead_time_not_shoot_through():
     tr = trace({"AH": (1, [(1000 * NS, 0)]), "AL": (0, [(1000 * NS, 1)])}, 2000 * NS)
-    rules = [f.rule for f in check(tr, dead_ns=100).findings]
+    rules = [f.rule for f in check(tr, dead_ns=100).violations]
     assert rules == ["dead-time"]
 
 
 def test_overlap_still_running_at_capture_end_ends_at_capture_end():
     tr = trace({"AH": (0, [(1500 * NS, 1)]), "AL": (1, [])}, 2000 * NS)
-    (f,) = check(tr).findings
+    (f,) = check(tr).violations
     assert (f.start_ps, f.end_ps) == (1500 * NS, 2000 * NS)
     assert f.detail["open_end"] is True
 
@@ -83,7 +83,7 @@ def test_active_low_channels_are_inverted():
         {"AH": (0, [(100 * NS, 1), (200 * NS, 0)]), "AL": (1, [(150 * NS, 0), (300 * NS, 1)])},
         400 * NS,
     )
-    (f,) = check(tr, active_low=frozenset({"AL"})).findings
+    (f,) = check(tr, active_low=frozenset({"AL"})).violations
     assert (f.rule, f.start_ps, f.end_ps) == ("shoot-through", 150 * NS, 200 * NS)
 
 
@@ -107,7 +107,7 @@ def test_clean_run_has_statistics_and_margins():
         2000 * NS,
     )
     r = check(tr, dead_ns=400)
-    assert r.findings == ()
+    assert r.violations == ()
     s = r.leg_stats[0]
     assert (s.low_to_high.count, s.low_to_high.min_gap_ps, s.low_to_high.min_gap_at_ps) == (
         1,
@@ -134,7 +134,7 @@ def test_sampled_dead_time_bounds(gap_samples, required_ns, expect):
     ts = 10 * NS
     off = 100 * ts
     tr = trace({"AH": (1, [(off, 0)]), "AL": (0, [(off + gap_samples * ts, 1)])}, 300 * ts, ts=ts)
-    (f,) = check(tr, dead_ns=required_ns).findings
+    (f,) = check(tr, dead_ns=required_ns).violations
     assert f.certainty is expect
     assert f.bounds_ps == ((gap_samples - 1) * ts, (gap_samples + 1) * ts)
 
@@ -145,7 +145,7 @@ def test_clean_but_unproven_handover_is_counted():
     ts = 10 * NS
     tr = trace({"AH": (1, [(100 * ts, 0)]), "AL": (0, [(112 * ts, 1)])}, 300 * ts, ts=ts)
     r = check(tr, dead_ns=115)
-    assert r.findings == ()
+    assert r.violations == ()
     assert r.leg_stats[0].high_to_low.not_proven == 1
 
 
@@ -189,9 +189,9 @@ def test_rules_match_brute_force_walk(tmp_path_factory, capture):
     rows = [(t * NS, {"AH": h, "AL": lo}) for t, h, lo in zip(times, ah, al, strict=True)]
     overlaps, handovers = walk(rows, "AH", "AL", tr.end_ps, active_low)
 
-    got_st = [(f.start_ps, f.end_ps) for f in report.findings if f.rule == "shoot-through"]
+    got_st = [(f.start_ps, f.end_ps) for f in report.violations if f.rule == "shoot-through"]
     assert got_st == [(o.start, o.end) for o in overlaps]
-    got_dt = sorted((f.start_ps, f.end_ps) for f in report.findings if f.rule == "dead-time")
+    got_dt = sorted((f.start_ps, f.end_ps) for f in report.violations if f.rule == "dead-time")
     want_dt = sorted((h.off, h.on) for h in handovers if h.on - h.off < dead * NS)
     assert got_dt == want_dt
     stats = report.leg_stats[0]
@@ -199,3 +199,16 @@ def test_rules_match_brute_force_walk(tmp_path_factory, capture):
         gaps = [h.on - h.off for h in handovers if h.direction == name]
         assert d.count == len(gaps)
         assert d.min_gap_ps == (min(gaps) if gaps else None)
+
+
+def test_sanity_warnings_do_not_fail_unless_strict():
+    tr = trace({"AH": (0, [(100 * NS, 1)]), "AL": (0, [])}, 1000 * NS)
+    r = check(tr)
+    assert sorted(f.rule for f in r.warnings) == ["short-capture", "stuck-channel"]
+    assert r.violations == ()
+
+
+def test_twin_channels_warning():
+    edges = [(100 * NS, 1), (200 * NS, 0), (300 * NS, 1), (400 * NS, 0)]
+    tr = trace({"AH": (0, edges), "AL": (0, edges)}, 1000 * NS)
+    assert "twin-channels" in [f.rule for f in check(tr).warnings]
