@@ -23,7 +23,7 @@ EXAMPLES = """examples:
   sequencecheck plot capture.csv --at 1.18ms --dead-time 500ns
   sequencecheck plot capture.csv --at 3.05ms --window 2us --output overlap.svg
 
-Findings inside the window are shaded, with their measured value and requirement
+Violations inside the window are shaded, with their measured value and requirement
 drawn as dimension arrows. Without --output, NAME_at_TIME.png and .svg are written
 to the current folder. Exit status: 0 drawn, 2 usage or input error.
 """
@@ -90,7 +90,7 @@ def run_plot(args: argparse.Namespace) -> int:
     lo = max(at - window // 2, trace.start_ps)
     hi = min(at - window // 2 + window, trace.end_ps)
     checked = check_trace(trace, bridge, policy)
-    inside = [f for f in checked.findings if f.end_ps >= lo and f.start_ps <= hi]
+    inside = [f for f in checked.violations if f.end_ps >= lo and f.start_ps <= hi]
     rows = [
         (f"{leg.name} {side}: {ch}", ch)
         for leg in bridge.legs
@@ -99,7 +99,7 @@ def run_plot(args: argparse.Namespace) -> int:
     title = f"{os.path.basename(path)} around {format_time(at)}"
     if inside:
         more = len(inside) - MAX_ANNOTATED
-        title += f": {len(inside)} finding(s)" + (f", {more} not annotated" if more > 0 else "")
+        title += f": {len(inside)} violation(s)" + (f", {more} not annotated" if more > 0 else "")
     from ..plots import draw_timing
 
     pictures = draw_timing(

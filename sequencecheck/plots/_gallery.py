@@ -1,4 +1,4 @@
-"""All the pictures for one report: a diagram per finding (up to a limit per rule) and
+"""All the pictures for one report: a diagram per violation (up to a limit per rule) and
 dead-time histograms per leg and direction, drawn from re-read traces.
 
 The Report stays plain data: pictures need the edges, so each checked input is read
@@ -42,7 +42,8 @@ class Picture:
 class Figures:
     """Pictures for a report, keyed by input index (and finding index for diagrams).
 
-    ``left_out`` counts, per rule, the findings drawn without a diagram because of
+    Diagrams are drawn for violations only (warnings such as a stuck channel span
+    the whole input). ``left_out`` counts, per rule, the violations without a diagram because of
     ``limit``; ``legs`` gives each input's legs with their channels; ``notes`` says
     what could not be drawn and why.
     """
@@ -168,6 +169,8 @@ def draw_report(
             continue
         legs_by_input[i] = leg_bridge.legs
         for n, f in enumerate(r.findings):
+            if not f.is_violation:  # warnings often span the whole input: no diagram
+                continue
             if drawn.get(f.rule, 0) >= limit:
                 left_out[f.rule] = left_out.get(f.rule, 0) + 1
                 continue
