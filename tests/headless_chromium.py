@@ -117,11 +117,17 @@ class Browser:
             stdout=subprocess.DEVNULL,
             stderr=subprocess.DEVNULL,
         )
+        try:
+            self._connect()
+        except BaseException:
+            self.close()
+            raise
+
+    def _connect(self) -> None:
         port_file = Path(self.profile, "DevToolsActivePort")
         deadline = time.monotonic() + 30
         while not port_file.exists() or not port_file.read_text().strip():
             if time.monotonic() > deadline or self.proc.poll() is not None:
-                self.close()
                 raise RuntimeError("chromium did not open its DevTools port")
             time.sleep(0.05)
         port = port_file.read_text().split()[0]

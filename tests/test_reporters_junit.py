@@ -15,7 +15,8 @@ junitparser = pytest.importorskip("junitparser")
 
 
 def _parse(text: str):
-    # junitparser (general-purpose library) reads the XML back; ElementTree checks well-formedness
+    # junitparser (general-purpose library) reads the XML back; ElementTree checks well-formedness.
+    # Only reading: junitparser's add_testcase is O(n) per call, too slow to build large suites.
     ET.fromstring(text.encode("utf-8"))
     return junitparser.JUnitXml.fromstring(text)
 
