@@ -9,12 +9,15 @@ from __future__ import annotations
 
 import html
 from collections.abc import Iterable, Mapping
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from .. import __version__
 from ..findings import Certainty, DirectionStats, Finding, InputReport, Report
 from ..units import format_time
 from ._common import xml_safe
+
+if TYPE_CHECKING:  # the plots package is imported only when pictures are drawn
+    from ..plots import Figures
 
 __all__ = ["CAUTION", "render_html"]
 
@@ -134,7 +137,7 @@ def _finding_row(f: Finding, anchor: str | None) -> str:
     )
 
 
-def _input_section(r: InputReport, n: int, figures: Any) -> str:
+def _input_section(r: InputReport, n: int, figures: Figures | None) -> str:
     parts = [f'<section class="input" id="input-{n}"><h2>{_e(r.input)}</h2>']
     if r.error is not None:
         parts.append(f'<p class="error">not checked: {_e(r.error)}</p></section>')
@@ -209,7 +212,7 @@ def _settings(report: Report) -> str:
     return _facts(items) if items else ""
 
 
-def _pictures_note(figures: Any, total: int) -> str:
+def _pictures_note(figures: Figures | None, total: int) -> str:
     if figures is None:
         if total:
             return '<p class="note">Diagrams were not drawn for this report.</p>'
@@ -226,7 +229,9 @@ def _pictures_note(figures: Any, total: int) -> str:
     return "".join(lines)
 
 
-def render_html(report: Report, *, figures: Any = None, title: str = "Gate-sequence check") -> str:
+def render_html(
+    report: Report, *, figures: Figures | None = None, title: str = "Gate-sequence check"
+) -> str:
     """The report as one HTML page; ``figures`` is a ``sequencecheck.plots.Figures``."""
     violations = report.violations
     if violations:

@@ -15,7 +15,7 @@ from typing import Any
 from urllib.parse import quote
 
 from .. import __version__
-from ..findings import Certainty, Finding, Report, Severity
+from ..findings import Certainty, Finding, InputReport, Report, Severity
 from ..model import Source
 from ..rules import RULES
 from ..units import format_time
@@ -156,7 +156,7 @@ def sarif_record(report: Report) -> dict[str, Any]:
     }
 
 
-def _input(r: Any) -> dict[str, Any]:
+def _input(r: InputReport) -> dict[str, Any]:
     return {
         "input": r.input,
         "rows": r.rows,
