@@ -51,8 +51,12 @@ def _int(strategy: str, arg: str, value: object, *, minimum: int = 0) -> int:
 def _range(strategy: str, arg: str, value: object, *, minimum: int = 0) -> tuple[int, int]:
     if not isinstance(value, tuple | list) or len(value) != 2:
         raise _fail(strategy, arg, value, "must be a (low, high) pair of integers")
-    lo = _int(strategy, arg, value[0], minimum=minimum)
-    hi = _int(strategy, arg, value[1], minimum=minimum)
+    try:
+        lo = _int(strategy, arg, value[0], minimum=minimum)
+        hi = _int(strategy, arg, value[1], minimum=minimum)
+    except InvalidArgument as e:  # name the whole pair, not just the bad end
+        why = str(e).partition("): ")[2]
+        raise _fail(strategy, arg, value, f"both ends {why}") from None
     if lo > hi:
         raise _fail(strategy, arg, value, "low end is above the high end")
     return lo, hi
@@ -196,7 +200,7 @@ def edge_traces(
     ``[min_gap_ps, max_gap_ps]``; channels are independent, so overlaps,
     hand-overs with short or zero gaps and coincident edges all occur. With
     ``undefined_levels`` the levels X and Z appear too. The window starts at 0
-    and ends up to ``max_gap_ps`` after the last edge. Shrinks toward fewer
+    and ends 1 ps to ``max_gap_ps`` after the last edge. Shrinks toward fewer
     edges, every channel starting low, short gaps and an early end.
     """
     name = "edge_traces"
@@ -225,7 +229,7 @@ def edge_traces(
     def trace(draw: st.DrawFn) -> Trace:
         channels = {ch: draw(channel(ch)) for ch in bridge.channels}
         last = max((int(c.times[-1]) for c in channels.values() if c.times.size), default=0)
-        end = last + draw(st.integers(0, g_hi), label="tail_ps")
+        end = last + draw(st.integers(1, g_hi), label="tail_ps")  # edges inside [0, end)
         rows = sum(c.edge_count for c in channels.values())
         return Trace(channels, 0, end, path="<edge_traces>", rows=rows, kind="generated")
 
