@@ -10,6 +10,7 @@ import operator
 from dataclasses import dataclass
 from enum import StrEnum
 from fractions import Fraction
+from typing import Any
 
 from ..errors import UsageError
 from ..model import Bridge
@@ -102,6 +103,10 @@ class Command:
             f"{duty if self.mode.drives else ''})"
         )
 
+    def _repr_pretty_(self, printer: Any, cycle: bool) -> None:
+        """Hypothesis (and IPython) print the short form too."""
+        printer.text(repr(self))
+
 
 @dataclass(frozen=True, slots=True)
 class PwmSettings:
@@ -136,3 +141,7 @@ class PwmSettings:
             f"duty=Fraction({self.duty.numerator}, {self.duty.denominator}), "
             f"dead_time_ps={self.dead_time_ps:_})"
         )
+
+    def _repr_pretty_(self, printer: Any, cycle: bool) -> None:
+        """Hypothesis (and IPython) print the short form too."""
+        printer.text(repr(self))

@@ -96,27 +96,29 @@ class Recorder:
         Levels come as keywords (``AH=1``) or, for names that are not Python
         identifiers, as a mapping in the second argument.
         """
-        t = _exact_ps(t_ps, "time")
+        t = t_ps if type(t_ps) is int else _exact_ps(t_ps, "time")
         if t < self.start_ps:
             raise UsageError(
                 f"{self.name}: time {t} ps is before the recording start {self.start_ps} ps"
             )
-        changes = dict(levels or {}, **named)
-        checked: list[tuple[str, int]] = []
+        changes = {**levels, **named} if levels else named
+        all_times, checked = self._times, []
         for ch, level in changes.items():  # check everything before changing anything
-            self._check_known(ch)
-            value = self._level(ch, level)
-            times = self._times.get(ch)
-            if times and t < times[-1]:
+            times = all_times.get(ch)
+            if times is None:
+                self._check_known(ch)
+            elif times and t < times[-1]:
                 raise UsageError(
                     f"{self.name}: channel {ch!r} set at {t} ps, before its previous "
                     f"change at {times[-1]} ps; time must not go backwards"
                 )
-            checked.append((ch, value))
-        for ch, value in checked:
-            if ch not in self._times:
+            value = level if type(level) is int and 0 <= level <= 1 else None
+            checked.append((ch, self._level(ch, level) if value is None else value, times))
+        for ch, value, times in checked:
+            if times is None:
                 self._add(ch)
-            self._times[ch].append(t)
+                times = all_times[ch]
+            times.append(t)
             self._levels[ch].append(value)
         self.calls += 1
         if t > self._now:
