@@ -4,9 +4,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-import hypothesis
 import pytest
-from conftest import ROOT
 from hypothesis import HealthCheck, Phase, find, given, settings
 
 from samples.pump_controller import show_counterexample
@@ -83,9 +81,6 @@ def test_saturation_fault_is_found_and_shrunk():
     notes = "\n".join(info.value.__notes__)
     assert notes.startswith("Falsifying example: test_pump_drive_is_safe(")
     (finding,) = info.value.report.violations
-    readme = (ROOT / "samples" / "pump_controller" / "README.md").read_text()
-    if f"with hypothesis {hypothesis.__version__};" in readme:  # shrinking may differ by version
-        assert notes in readme and str(info.value) in readme
     assert finding.rule == "dead-time" and finding.measured_ps == 0
     # shrunk to the essence: the low side on, then a saturating duty
     pwm, commands = find(

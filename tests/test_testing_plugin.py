@@ -3,11 +3,16 @@
 from __future__ import annotations
 
 import tomllib
+from importlib.metadata import entry_points
 
 import pytest
 from conftest import ROOT
 
 PLUGIN = "sequencecheck.testing.pytest_plugin"
+
+# Installed (CI): the entry point loads the plugin, as for users; a checkout: load it by name.
+# (Passing -p as well when installed would re-import a module pytest cannot rewrite any more.)
+LOAD = () if entry_points(group="pytest11", name=PLUGIN) else ("-p", PLUGIN)
 
 STRICT_INI = """
 [pytest]
@@ -67,7 +72,7 @@ def test_own_failure_comes_first(gate_recorder):
 def test_plugin_fixture_and_marker(pytester: pytest.Pytester):
     pytester.makeini(STRICT_INI)
     pytester.makepyfile(test_gates=TESTS)
-    result = pytester.runpytest("-p", PLUGIN, "-p", "no:cacheprovider")
+    result = pytester.runpytest(*LOAD, "-p", "no:cacheprovider")
     result.assert_outcomes(passed=2, failed=4)
     out = result.stdout.str()
     result.stdout.fnmatch_lines(
@@ -93,9 +98,9 @@ def test_bad_option(gate_recorder):
     gate_recorder.set(0, AH=1)
 """
     )
-    result = pytester.runpytest("-p", PLUGIN, "-p", "no:cacheprovider", "--markers")
+    result = pytester.runpytest(*LOAD, "-p", "no:cacheprovider", "--markers")
     result.stdout.fnmatch_lines(["@pytest.mark.gate_check(bridge=None, policy=None, check=True):*"])
-    result = pytester.runpytest("-p", PLUGIN, "-p", "no:cacheprovider")
+    result = pytester.runpytest(*LOAD, "-p", "no:cacheprovider")
     result.assert_outcomes(errors=1)
     result.stdout.fnmatch_lines(
         ["*gate_check does not take dead_time (it takes bridge, policy, check)*"]
