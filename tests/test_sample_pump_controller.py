@@ -11,7 +11,7 @@ from samples.pump_controller import show_counterexample
 from samples.pump_controller.harness import REVERSAL_DWELL_PS, pump_policy, record_drive
 from samples.pump_controller.pump_drive import PUMP_BRIDGE, PumpDrive
 from samples.pump_controller.pump_drive_faulty import BrakeResetPumpDrive, SaturatingPumpDrive
-from sequencecheck.rules import rule_ids
+from sequencecheck.rules import rule_ids, run
 from sequencecheck.testing import (
     Command,
     DriveMode,
@@ -115,4 +115,18 @@ def test_reversal_dwell_fault_is_found():
         lambda c: _unsafe(BrakeResetPumpDrive, pwm, c, reversal_dwell=True),
         settings=SEARCH,
     )
-    assert [c.mode for c in found] == [DriveMode.FORWARD, DriveMode.BRAKE, DriveMode.REVERSE]
+    # a drive one way, a brake, then a drive the other way (in either direction)
+    modes = [c.mode for c in found]
+    assert any(
+        a.drives and b is DriveMode.BRAKE and c.drives and c is not a
+        for i, a in enumerate(modes)
+        for j, b in enumerate(modes[i + 1 :], i + 1)
+        for c in modes[j + 1 :]
+    ), found
+    result = run(
+        record_drive(BrakeResetPumpDrive, pwm, found),
+        PUMP_BRIDGE,
+        pump_policy(pwm, reversal_dwell=True),
+    )
+    assert {f.rule for f in result.violations} == {"mode-transition"}
+    assert not _unsafe(PumpDrive, pwm, found, reversal_dwell=True)
