@@ -77,3 +77,10 @@ def test_unknown_channels_levels_and_early_times_are_refused():
     assert rec.trace().channel("AH").levels.tolist() == [Level.X]
     with pytest.raises(UsageError, match="end_ps 1400 ps is before the last change at 1500 ps"):
         rec.trace(end_ps=1_400)
+
+
+def test_channels_must_be_a_list_of_names():
+    with pytest.raises(UsageError, match="channels must be a list of names, not the string 'AH'"):
+        Recorder("AH")
+    with pytest.raises(UsageError, match="unknown channel 'BL'"):
+        Recorder(("AH", "AL"), initial={"BL": 1})

@@ -62,6 +62,10 @@ class Recorder:
         name: str = "<recorder>",
     ) -> None:
         self.name = name
+        if isinstance(channels, str):
+            raise UsageError(
+                f"{name}: channels must be a list of names, not the string {channels!r}"
+            )
         self.start_ps = _exact_ps(start_ps, "start_ps")
         self._fixed = channels is not None
         self._default_initial = 0 if isinstance(initial, Mapping) else self._level("*", initial)
