@@ -72,7 +72,7 @@ def test_pwm_settings_are_realistic(switch_and_pwm):
 
 
 def test_switch_ranges_match_the_trade():
-    # facts.md S1 magnitudes: MOSFET legs tens to a few hundred ns, IGBT legs about 1-5 us [common practice]
+    # facts.md section 1, magnitudes: MOSFET legs tens to a few hundred ns, IGBT legs about 1-5 us [common practice]
     assert SWITCH_RANGES["mosfet"]["dead_time_ps"] == (20_000, 500_000)
     assert SWITCH_RANGES["igbt"]["dead_time_ps"] == (1_000_000, 5_000_000)
 
