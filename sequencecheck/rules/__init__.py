@@ -8,6 +8,9 @@ from ..findings import InputReport, LegStats
 from ..model import Bridge, Policy, Trace
 from ._base import CheckContext, Rule, RuleResult
 from .conduction import DEAD_TIME, SHOOT_THROUGH
+from .modes import MODE_TRANSITION
+from .pulses import MIN_PULSE
+from .unknown import UNKNOWN_STATE
 
 __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 
@@ -15,6 +18,9 @@ __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 RULES: tuple[Rule, ...] = (
     SHOOT_THROUGH,
     DEAD_TIME,
+    MODE_TRANSITION,
+    MIN_PULSE,
+    UNKNOWN_STATE,
 )
 
 
