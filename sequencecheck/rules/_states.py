@@ -23,12 +23,14 @@ Names, in order of precedence:
   ``1`` (high), ``0`` (low) or ``_`` (off), e.g. ``open-1_0``; for one leg
   ``high``/``low``; for other leg counts ``s-<pattern>``.
 
-Hand-overs: a leg that goes from one side to the other through an all-off gap no
-longer than ``handover_max_ps`` is held at its previous side during the gap, so
-dead time never shows up as a state (or a mode change) of its own. This gives two
-timelines: ``raw`` (states exactly as decoded) and ``merged`` (hand-over gaps
-folded into the state before them). Mode changes are counted on ``merged``;
-dwell between two states is measured on ``raw``.
+Hand-overs: a leg's hand-over gap is a maximal stretch with both its switches off,
+after one of them was on and before the other turns on, no longer than
+``handover_max_ps``. Every instant inside some leg's hand-over gap keeps the state
+in force just before the gap, so dead time never shows up as a state (or a mode
+change) of its own: the change happens when the last incoming switch turns on.
+This gives two timelines: ``raw`` (states exactly as decoded) and ``merged``
+(hand-over gaps folded into the state before them). Mode changes are counted on
+``merged``; dwell between two states is measured on ``raw``.
 """
 
 from __future__ import annotations
@@ -58,6 +60,8 @@ __all__ = [
     "StateTimeline",
     "decode",
     "evaluate",
+    "handover_gaps",
+    "leg_codes",
 ]
 
 LEG_OFF, LEG_HIGH, LEG_LOW, LEG_BOTH, LEG_UNKNOWN = 0, 1, 2, 3, 4
@@ -308,15 +312,16 @@ def leg_codes(trace: Trace, bridge: Bridge, starts: np.ndarray) -> np.ndarray:
     return codes
 
 
-def hold_handovers(
+def handover_gaps(
     codes: np.ndarray, starts: np.ndarray, ends: np.ndarray, max_gap_ps: int
 ) -> np.ndarray:
-    """Leg codes with each hand-over gap (off between opposite sides, <= max) held at
-    the side before it."""
-    out = codes.copy()
+    """Mask of elementary segments inside some leg's hand-over gap: a maximal stretch
+    with both switches of the leg off, after one of its switches and before the other,
+    no longer than ``max_gap_ps``."""
     m = codes.shape[0]
+    inside = np.zeros(m, dtype=bool)
     if m < 3:
-        return out
+        return inside
     for k in range(codes.shape[1]):
         c = codes[:, k]
         off = c == LEG_OFF
@@ -340,11 +345,8 @@ def hold_handovers(
         mark = np.zeros(m + 1, dtype=np.int32)
         np.add.at(mark, run_first[keep], 1)
         np.add.at(mark, run_last[keep] + 1, -1)
-        held = np.cumsum(mark[:m]) > 0
-        src = np.where(held, 0, np.arange(m))
-        np.maximum.accumulate(src, out=src)
-        out[:, k] = c[src]
-    return out
+        inside |= np.cumsum(mark[:m]) > 0
+    return inside
 
 
 def _combine(codes: np.ndarray) -> np.ndarray:
@@ -387,9 +389,7 @@ def decode(trace: Trace, bridge: Bridge, handover_max_ps: int | None = None) -> 
     max_gap = DEFAULT_HANDOVER_MAX_PS if handover_max_ps is None else handover_max_ps
     starts, ends = _elementary(trace, bridge.channels)
     raw_codes = leg_codes(trace, bridge, starts)
-    held_codes = hold_handovers(raw_codes, starts, ends, max_gap)
-    raw_combo, held_combo = _combine(raw_codes), _combine(held_codes)
-    uniq, inverse = np.unique(np.concatenate((raw_combo, held_combo)), return_inverse=True)
+    uniq, inverse = np.unique(_combine(raw_codes), return_inverse=True)
     n_legs = len(bridge.legs)
     combo_names = [namer.name(_digits(int(u), n_legs)) for u in uniq.tolist()]
     names = list(namer.possible_names())
@@ -397,10 +397,14 @@ def decode(trace: Trace, bridge: Bridge, handover_max_ps: int | None = None) -> 
         if nm not in names:
             names.append(nm)
     lookup = np.array([names.index(nm) for nm in combo_names], dtype=np.int32)
-    state_of = lookup[inverse.reshape(-1)]
-    raw_states, held_states = state_of[: starts.size], state_of[starts.size :]
+    raw_states = lookup[inverse.reshape(-1)]
+    # each stretch inside a hand-over gap keeps the state in force just before it
+    inside = handover_gaps(raw_codes, starts, ends, max_gap)
+    held_from = np.where(inside, 0, np.arange(starts.size))
+    np.maximum.accumulate(held_from, out=held_from)
+    held_states = raw_states[held_from]
     raw = _runs(starts, ends, raw_states, np.ones(starts.size, dtype=bool))
-    merged = _runs(starts, ends, held_states, raw_states == held_states)
+    merged = _runs(starts, ends, held_states, ~inside)
     return StateTimeline(tuple(names), raw, merged, max_gap)
 
 

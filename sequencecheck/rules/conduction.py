@@ -42,6 +42,8 @@ def handovers(turning_on: Intervals, turning_off: Intervals, direction: Directio
     """
     idx, on_t = turning_on.edge_starts()
     _, off_t = turning_off.edge_ends()
+    if len(turning_off) == 0:  # the complement never conducts: no hand-over to measure
+        on_t = off_t = idx = np.empty(0, dtype=np.int64)
     j = np.searchsorted(off_t, on_t, side="right") - 1  # latest complement turn-off <= on
     k = np.searchsorted(turning_off.starts, on_t, side="right") - 1  # complement interval
     complement_on = (k >= 0) & (turning_off.ends[np.maximum(k, 0)] > on_t)
