@@ -232,7 +232,7 @@ def test_rules_match_brute_force(case, min_pulse, dwell, data):
                     left = seen_there[-1] + 1
                     if t - left < dwell:
                         want.append(((), left, t))
-    assert got("mode-transition", "dwell-between") == sorted(want)
+    assert got("mode-transition", "reversal-dwell") == sorted(want)
 
     # forbidden changes, on the merged states: from the end of the old state as decoded
     want = []

@@ -43,6 +43,7 @@ class DwellRule:
     to_state: str
     min_dwell_ps: int
     source: Source | None = None
+    reversal: bool = False  # the default reversal dwell of a two-leg bridge
 
 
 @dataclass(frozen=True)
@@ -173,7 +174,7 @@ def compile_policy(policy: Policy, names: tuple[str, ...], n_legs: int) -> Compi
             own = {(r.from_state, r.to_state) for r in tp.rules}
             for pair in (("forward", "reverse"), ("reverse", "forward")):
                 if pair not in own:
-                    dwell.append(DwellRule(pair[0], pair[1], reversal))
+                    dwell.append(DwellRule(pair[0], pair[1], reversal, reversal=True))
         else:
             lap_dwell = reversal
     return CompiledPolicy(

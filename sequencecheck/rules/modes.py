@@ -194,9 +194,17 @@ def _dwells(
                     rule.min_dwell_ps,
                     rule.from_state,
                     rule.to_state,
-                    f"{rule.from_state} -> {rule.to_state} after {format_time(end - start)} "
-                    f"between them; needs {format_time(rule.min_dwell_ps)}",
-                    "dwell-between",
+                    (
+                        f"reversal {rule.from_state} -> {rule.to_state} with "
+                        f"{format_time(end - start)} in brake/coast between; needs "
+                        f"{format_time(rule.min_dwell_ps)} (reversal dwell)"
+                    )
+                    if rule.reversal
+                    else (
+                        f"{rule.from_state} -> {rule.to_state} after {format_time(end - start)} "
+                        f"between them; needs {format_time(rule.min_dwell_ps)}"
+                    ),
+                    "reversal-dwell" if rule.reversal else "dwell-between",
                 )
             )
     if worst is not None:
