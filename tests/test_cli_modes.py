@@ -81,3 +81,23 @@ def test_bad_durations_exit_2_with_one_line(write_csv):
         r = run_cli("check", path, flag, "5OOns")
         assert r.returncode == 2, flag
         assert r.stderr.count("\n") == 1 and flag in r.stderr and "Traceback" not in r.stderr
+
+
+def test_demo_reversal_sample():
+    from conftest import SAMPLES
+
+    path = str(SAMPLES / "cart_reversal_changes.csv")
+    r = run_cli(
+        "check", path, "--dead-time", "500ns", "--reversal-dwell", "1ms", "--format", "json"
+    )
+    assert r.returncode == 1, r.stderr
+    [v] = json.loads(r.stdout)["violations"]
+    # forward's last high-side pulse ends at 1.95 ms + 30 us; reverse starts when BH turns
+    # on, 750 ns after the 200 us brake ends at 2.2 ms (samples/make_mode_samples.py)
+    assert (v["rule"], v["start_ps"], v["end_ps"]) == (
+        "mode-transition",
+        1_980_000_000,
+        2_200_750_000,
+    )
+    r = run_cli("check", path, "--dead-time", "500ns", "--reversal-dwell", "200us")
+    assert r.returncode == 0, r.stdout
