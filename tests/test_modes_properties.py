@@ -62,7 +62,7 @@ def edges(draw):
     spec = {}
     for c in chans:
         initial = draw(levels)
-        times = sorted(draw(st.sets(st.integers(1, width - 1), max_size=8))) if width > 1 else []
+        times = sorted(draw(st.sets(st.integers(1, width), max_size=8)))  # width: the end
         lv = [draw(levels) for _ in times]
         spec[c] = (initial, list(zip(times, lv, strict=True)))
     max_gap = draw(st.integers(0, 6))
@@ -204,11 +204,14 @@ def test_rules_match_brute_force(case, min_pulse, dwell, data):
             if f.rule == rule and (check is None or f.detail.get("check") == check)
         )
 
-    # min-pulse: every run of one defined level not touching the window's ends
+    # min-pulse: every run of one defined level between two edges (an edge exactly at the
+    # window's end still ends a pulse; the window's start never begins one)
     want = []
     for c in bridge.channels:
+        after = level(spec[c], width)
         for v, a, b in runs([level(spec[c], t) for t in range(width)]):
-            if v in (0, 1) and a > 0 and b < width and b - a < min_pulse:
+            ended = b < width or after != v
+            if v in (0, 1) and a > 0 and ended and b - a < min_pulse:
                 want.append(((c,), a, b))
     assert got("min-pulse") == sorted(want)
 

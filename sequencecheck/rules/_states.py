@@ -277,11 +277,22 @@ class StateTimeline:
             return None
 
 
+def _sorted_unique(a: np.ndarray) -> np.ndarray:
+    """Sorted distinct values (a sort and a diff: faster here than np.unique's hashing)."""
+    a = np.sort(a, kind="stable")
+    if a.size < 2:
+        return a
+    keep = np.empty(a.size, dtype=bool)
+    keep[0] = True
+    np.not_equal(a[1:], a[:-1], out=keep[1:])
+    return a[keep]
+
+
 def _elementary(trace: Trace, channels: Sequence[str]) -> tuple[np.ndarray, np.ndarray]:
     """Cut the window at every edge of ``channels``: segment starts and ends."""
     start, end = trace.start_ps, trace.end_ps
     parts = [trace.channel(c).times for c in channels]
-    cuts = np.unique(np.concatenate(parts)) if parts else np.empty(0, dtype=np.int64)
+    cuts = _sorted_unique(np.concatenate(parts)) if parts else np.empty(0, dtype=np.int64)
     cuts = cuts[(cuts > start) & (cuts < end)]
     starts = np.concatenate(([start], cuts)).astype(np.int64, copy=False)
     ends = np.concatenate((cuts, [end])).astype(np.int64, copy=False)
@@ -289,13 +300,20 @@ def _elementary(trace: Trace, channels: Sequence[str]) -> tuple[np.ndarray, np.n
 
 
 def _levels_at(trace: Trace, channel: str, starts: np.ndarray) -> np.ndarray:
+    """The channel's level on each segment; every edge inside the window starts a segment."""
     ch = trace.channel(channel)
-    idx = np.searchsorted(ch.times, starts, side="right")
-    out = np.empty(starts.size, dtype=np.int8)
-    first = idx == 0
-    out[first] = ch.initial
-    out[~first] = ch.levels[idx[~first] - 1]
-    return out
+    # the first segment each edge is in force on: edges before the window act on the
+    # first segment, edges at or after its end on none
+    pos = np.maximum(np.searchsorted(starts, ch.times, side="right") - 1, 0)
+    edge = np.flatnonzero(ch.times <= starts[pos])
+    at = pos[edge]
+    last = np.ones(edge.size, dtype=bool)
+    last[:-1] = at[:-1] != at[1:]  # of edges sharing a segment, the last wins
+    src = np.zeros(starts.size, dtype=np.int64)
+    src[at[last]] = edge[last] + 1
+    np.maximum.accumulate(src, out=src)
+    table = np.concatenate(([ch.initial], ch.levels)).astype(np.int8, copy=False)
+    return table[src]
 
 
 def leg_codes(trace: Trace, bridge: Bridge, starts: np.ndarray) -> np.ndarray:
@@ -343,8 +361,8 @@ def handover_gaps(
         if not keep.any():
             continue
         mark = np.zeros(m + 1, dtype=np.int32)
-        np.add.at(mark, run_first[keep], 1)
-        np.add.at(mark, run_last[keep] + 1, -1)
+        mark[run_first[keep]] += 1  # distinct runs: no index repeats
+        mark[run_last[keep] + 1] -= 1
         inside |= np.cumsum(mark[:m]) > 0
     return inside
 
@@ -371,15 +389,13 @@ def _runs(starts: np.ndarray, ends: np.ndarray, states: np.ndarray, exact: np.nd
     core_e = ends[tails].copy()
     if not exact.all():
         idx = np.flatnonzero(exact)
-        rid = run_id[idx]
-        has = np.zeros(n, dtype=bool)
-        has[rid] = True
-        first_exact = np.full(n, m, dtype=np.int64)
-        last_exact = np.full(n, -1, dtype=np.int64)
-        np.minimum.at(first_exact, rid, idx)
-        np.maximum.at(last_exact, rid, idx)
-        core_s[has] = starts[first_exact[has]]
-        core_e[has] = ends[last_exact[has]]
+        rid = run_id[idx]  # non-decreasing
+        runs = np.arange(n)
+        lo = np.searchsorted(rid, runs, side="left")
+        hi = np.searchsorted(rid, runs, side="right")
+        has = hi > lo
+        core_s[has] = starts[idx[lo[has]]]
+        core_e[has] = ends[idx[hi[has] - 1]]
     return Segments(starts[heads], ends[tails], states[heads].astype(np.int32), core_s, core_e)
 
 
@@ -389,7 +405,9 @@ def decode(trace: Trace, bridge: Bridge, handover_max_ps: int | None = None) -> 
     max_gap = DEFAULT_HANDOVER_MAX_PS if handover_max_ps is None else handover_max_ps
     starts, ends = _elementary(trace, bridge.channels)
     raw_codes = leg_codes(trace, bridge, starts)
-    uniq, inverse = np.unique(_combine(raw_codes), return_inverse=True)
+    combos = _combine(raw_codes)
+    uniq = _sorted_unique(combos)
+    inverse = np.searchsorted(uniq, combos)
     n_legs = len(bridge.legs)
     combo_names = [namer.name(_digits(int(u), n_legs)) for u in uniq.tolist()]
     names = list(namer.possible_names())
