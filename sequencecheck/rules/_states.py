@@ -383,19 +383,15 @@ def _runs(starts: np.ndarray, ends: np.ndarray, states: np.ndarray, exact: np.nd
     first[1:] = states[1:] != states[:-1]
     heads = np.flatnonzero(first)
     tails = np.concatenate((heads[1:] - 1, [m - 1]))
-    run_id = np.cumsum(first) - 1
-    n = heads.size
     core_s = starts[heads].copy()
     core_e = ends[tails].copy()
     if not exact.all():
-        idx = np.flatnonzero(exact)
-        rid = run_id[idx]  # non-decreasing
-        runs = np.arange(n)
-        lo = np.searchsorted(rid, runs, side="left")
-        hi = np.searchsorted(rid, runs, side="right")
-        has = hi > lo
-        core_s[has] = starts[idx[lo[has]]]
-        core_e[has] = ends[idx[hi[has] - 1]]
+        idx = np.arange(m)
+        last_exact = np.maximum.accumulate(np.where(exact, idx, -1))[tails]
+        first_exact = np.minimum.accumulate(np.where(exact, idx, m)[::-1])[::-1][heads]
+        has = last_exact >= heads
+        core_s[has] = starts[first_exact[has]]
+        core_e[has] = ends[last_exact[has]]
     return Segments(starts[heads], ends[tails], states[heads].astype(np.int32), core_s, core_e)
 
 
