@@ -11,10 +11,16 @@ from hypothesis import strategies as st
 
 from sequencecheck import Policy, check_trace
 from sequencecheck.model import (
+    All,
+    Any_,
     Bridge,
     Channel,
     Leg,
     Level,
+    Mode,
+    Not,
+    Side,
+    SwitchOn,
     Trace,
     TransitionPolicy,
     TransitionRule,
@@ -47,7 +53,29 @@ def walks(draw):
                 t += d
             spec[chan] = (values[0][1], values[1:])
     max_gap = draw(st.integers(0, 6))
-    return Bridge(legs), spec, width, max_gap
+    modes = USER_MODES[n_legs] if draw(st.booleans()) else ()
+    return Bridge(legs, modes=modes), spec, width, max_gap
+
+
+def _on(leg, side):
+    return SwitchOn(leg, Side.HIGH if side == "high" else Side.LOW)
+
+
+# user modes, and the same meaning written out plainly for the brute force (in ``name_of``)
+USER_MODES = {
+    2: (
+        Mode(
+            "drive",
+            Any_(
+                (
+                    All((_on("A", "high"), _on("B", "low"))),
+                    All((_on("A", "low"), _on("B", "high"))),
+                )
+            ),
+        ),
+    ),
+    3: (Mode("no-high", All(tuple(Not(_on(n, "high")) for n in "ABC"))),),
+}
 
 
 @st.composite
@@ -103,11 +131,16 @@ def leg_letter(bridge, spec, leg, t):
     return {(1, 1): "B", (1, 0): "H", (0, 1): "L", (0, 0): "-"}[(hi_on, lo_on)]
 
 
-def name_of(letters, legs):
+def name_of(letters, legs, modes=()):
     if "?" in letters:
         return "unknown"
     if "B" in letters:
         return "fault"
+    names = {m.name for m in modes}
+    if "drive" in names and "".join(letters) in ("HL", "LH"):
+        return "drive"
+    if "no-high" in names and "H" not in letters:
+        return "no-high"
     if all(x == "-" for x in letters):
         return "coast"
     if len(letters) == 2:
@@ -124,7 +157,7 @@ def name_of(letters, legs):
 def brute(bridge, spec, width, max_gap):
     legs = bridge.legs
     letters = [[leg_letter(bridge, spec, leg, t) for leg in legs] for t in range(width)]
-    raw = [name_of(row, legs) for row in letters]
+    raw = [name_of(row, legs, bridge.modes) for row in letters]
     inside = [False] * width
     for k in range(len(legs)):
         col = [row[k] for row in letters]

@@ -145,3 +145,14 @@ def test_sinusoidal_pwm_of_three_legs_is_clean():
     # without folding hand-overs, dead time would show up as open-leg states
     raw = {s["state"] for s in view["states"] if s["exact_time_ps"]}
     assert any(name.startswith("open-") for name in raw)
+
+
+def test_locked_anti_phase_duty_is_exact_for_long_periods():
+    # periods of 10 s (past the int64 fast path): 5.2 s forward is 52 % duty, outside a 1 %
+    # band; 5.04 s forward is 50.4 %, inside it
+    s = 10**12
+    a = pwm_pole(10 * s, [round(5.2 * s), round(5.04 * s)])
+    b = [(t, 1 - side) for t, side in a]
+    t = legs_trace({"A": a, "B": b}, TWO_LEGS, 20 * s, 0)
+    _, _, direction = lap_periods(decode(t, TWO_LEGS), 10_000)
+    assert direction.tolist() == [1, 0]

@@ -266,12 +266,17 @@ def lap_periods(
     drive = is_f | is_r
     np.maximum.at(drive_end, period[drive], seg.ends[drive])
     # |duty - 1/2| <= band  <=>  |fwd - rev| * 1e6 <= 2 * band * (fwd + rev), in exact ints
-    diff = (fwd - rev).astype(object)
-    total = (fwd + rev).astype(object)
-    near = np.array(
-        [abs(d) * 1_000_000 <= 2 * band_ppm * t for d, t in zip(diff, total, strict=True)],
-        dtype=bool,
-    )
+    diff, total = np.abs(fwd - rev), fwd + rev
+    if total.size and int(total.max()) > 4_000_000_000_000:  # over 4 s: int64 could overflow
+        near = np.array(
+            [
+                int(d) * 1_000_000 <= 2 * band_ppm * int(t)
+                for d, t in zip(diff.tolist(), total.tolist(), strict=True)
+            ],
+            dtype=bool,
+        )
+    else:
+        near = diff * 1_000_000 <= 2 * band_ppm * total
     direction = np.where(near, 0, np.sign(fwd - rev)).astype(np.int8)
     return starts, drive_end, direction
 
