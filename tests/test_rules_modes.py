@@ -342,6 +342,16 @@ def test_bad_modes_are_input_errors(expr, words):
     assert str(e.value).startswith("cart.br:3:5: ") and words in str(e.value)
 
 
+@pytest.mark.parametrize("name", ["fault", "unknown", "*", "twice"])
+def test_reserved_or_repeated_mode_names_are_input_errors(name):
+    twice = Mode("twice", Const(True), Source("cart.br", 1, 1))
+    bridge = Bridge(TWO_LEGS.legs, modes=(twice, Mode(name, Const(True), Source("cart.br", 3, 5))))
+    t = trace([switch(c, []) for c in TWO_LEGS.channels], 10)
+    with pytest.raises(InputError) as e:
+        check_trace(t, bridge)
+    assert str(e.value).startswith("cart.br:3:5: mode ")
+
+
 def test_bad_policy_through_check_is_exit_2(write_csv):
     from sequencecheck import check
 

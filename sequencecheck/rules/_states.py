@@ -138,9 +138,9 @@ class StateNamer:
         for mode in self.modes:
             if not isinstance(mode, Mode):
                 raise InputError(f"not a mode: {mode!r}", path=self.bridge.source)
-            if mode.name in (FAULT, UNKNOWN):
+            if mode.name in (FAULT, UNKNOWN, "*") or not mode.name:
                 raise _mode_error(
-                    f"mode {mode.name!r}: the name is reserved for the built-in state",
+                    f"mode {mode.name!r}: the name is reserved (fault, unknown, *) or empty",
                     mode,
                     self.bridge,
                 )
