@@ -65,8 +65,8 @@ def test_two_leg_hand_over_is_folded_into_the_state_before():
 
 
 def test_two_leg_default_names():
-    # facts.md section 5 [published, S19]: forward A.HS + B.LS, reverse B.HS + A.LS,
-    # brake low / high both LS / both HS, coast none, partial one switch only
+    # facts.md section 5, H-bridge states table [common practice]: forward A.HS + B.LS,
+    # reverse B.HS + A.LS, brake low / high both LS / both HS, coast none, partial one switch
     on = {
         "forward": ("AH", "BL"),
         "reverse": ("AL", "BH"),
