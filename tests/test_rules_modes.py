@@ -378,3 +378,18 @@ def test_rule_is_registered():
 
     assert MODE_TRANSITION in RULES
     assert {"mode-transition", "min-pulse", "unknown-state"} <= {r.id for r in RULES}
+
+
+def test_nine_of_sixteen_two_leg_combinations_are_legal():
+    # facts.md section 5 [derived]: 9 of the 16 combinations are legal
+    import itertools
+
+    from sequencecheck.rules._states import StateNamer
+
+    namer = StateNamer(TWO_LEGS)
+    names = []
+    for ah, al, bh, bl in itertools.product((0, 1), repeat=4):
+        codes = (ah + 2 * al, bh + 2 * bl)
+        names.append(namer.name(codes))
+    assert len(names) == 16 and sum(n != "fault" for n in names) == 9
+    assert len(set(names) - {"fault"}) == 9  # and each legal one has its own name
