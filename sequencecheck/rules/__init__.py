@@ -10,6 +10,7 @@ from ._base import CheckContext, Rule, RuleResult
 from .conduction import DEAD_TIME, SHOOT_THROUGH
 from .modes import MODE_TRANSITION
 from .pulses import MIN_PULSE
+from .sanity import SHORT_CAPTURE, STUCK_CHANNEL, TWIN_CHANNELS
 from .unknown import UNKNOWN_STATE
 
 __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
@@ -18,6 +19,9 @@ __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 RULES: tuple[Rule, ...] = (
     SHOOT_THROUGH,
     DEAD_TIME,
+    STUCK_CHANNEL,
+    TWIN_CHANNELS,
+    SHORT_CAPTURE,
     MODE_TRANSITION,
     MIN_PULSE,
     UNKNOWN_STATE,
