@@ -237,14 +237,16 @@ def test_rules_match_brute_force(case, min_pulse, dwell, data):
             if f.rule == rule and (check is None or f.detail.get("check") == check)
         )
 
-    # min-pulse: every run of one defined level between two edges (an edge exactly at the
-    # window's end still ends a pulse; the window's start never begins one)
+    # min-pulse: every run of one defined level between two edges, with defined levels
+    # before and after it (an edge exactly at the window's end still ends a pulse; the
+    # window's start never begins one)
     want = []
     for c in bridge.channels:
-        after = level(spec[c], width)
-        for v, a, b in runs([level(spec[c], t) for t in range(width)]):
-            ended = b < width or after != v
-            if v in (0, 1) and a > 0 and ended and b - a < min_pulse:
+        seq = [level(spec[c], t) for t in range(width + 1)]  # seq[width]: after the end edge
+        for v, a, b in runs(seq[:width]):
+            ended = b < width or seq[width] != v
+            defined = v in (0, 1) and a > 0 and seq[a - 1] in (0, 1) and seq[b] in (0, 1)
+            if defined and ended and b - a < min_pulse:
                 want.append(((c,), a, b))
     assert got("min-pulse") == sorted(want)
 

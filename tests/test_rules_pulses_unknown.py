@@ -101,14 +101,16 @@ def test_undefined_levels_are_reported_as_intervals():
     ]
     last = only(r, "unknown-state")[-1]
     assert last.detail["open_end"] and last.channels == ("AH",) and last.leg == "A"
-    # pulses next to an undefined stretch are complete pulses; undefined stretches are not
-    assert [(f.start_ps, f.end_ps) for f in only(r, "min-pulse")] == [
-        (100 * NS, 300 * NS),
-        (400 * NS, 900 * NS),
-    ]
+    # stretches at or next to an undefined level are not judged as pulses
+    assert only(r, "min-pulse") == []
     # the decoded state is "unknown" while any switch is undefined, and no mode finding
     # is raised for changes into or out of it
     view = r.extra["states"]
     unknown = next(s for s in view["states"] if s["state"] == "unknown")
     assert unknown["exact_time_ps"] == 300 * NS
     assert only(r, "mode-transition") == []
+    bl = channel("BL", 0, [(100 * NS, 1), (200 * NS, 0), (300 * NS, Level.Z), (400 * NS, 0)])
+    t = trace([switch("AH", []), switch("AL", []), switch("BH", []), bl], 1 * US)
+    r = check_trace(t, TWO_LEGS, Policy(min_pulse_ps=1 * US))
+    # the on-pulse 100-200 ns is judged; the off stretch 200-300 ns ends in Z: not judged
+    assert [(f.start_ps, f.end_ps) for f in only(r, "min-pulse")] == [(100 * NS, 200 * NS)]

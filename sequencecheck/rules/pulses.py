@@ -3,7 +3,8 @@
 A pulse is the time between two consecutive edges of a channel: an on-pulse while
 the switch is commanded on, an off-pulse while it is commanded off. Stretches cut
 by the window's start or end are not pulses (their width is unknown), nor are
-stretches at an undefined level (unknown-state reports those). For sampled inputs
+stretches at an undefined level (unknown-state reports those) or next to one (the
+switch may have been in the same state during it). For sampled inputs
 the true width lies within one sample period either way (facts.md section 8).
 """
 
@@ -19,13 +20,18 @@ from ._base import CheckContext, Rule, RuleResult
 __all__ = ["MIN_PULSE", "pulses"]
 
 
-def pulses(times: np.ndarray, levels: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Every complete stretch between two edges: (start index, width, level held)."""
+def pulses(
+    initial: int, times: np.ndarray, levels: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Every stretch between two edges at a defined level with defined levels on both
+    sides: (index of its first edge, width, level held)."""
     if times.size < 2:
         e = np.empty(0, dtype=np.int64)
         return e, e, e.astype(np.int8)
-    width = np.diff(times)
-    return np.arange(times.size - 1), width, levels[:-1]
+    defined = np.concatenate(([initial], levels)) < Level.X  # before edge 0, after each edge
+    ok = defined[:-2] & defined[1:-1] & defined[2:]  # before, during and after stretch k
+    idx = np.flatnonzero(ok)
+    return idx, times[idx + 1] - times[idx], levels[idx]
 
 
 def _check_min_pulse(ctx: CheckContext) -> RuleResult:
@@ -36,9 +42,7 @@ def _check_min_pulse(ctx: CheckContext) -> RuleResult:
         worst: WorstMargin | None = None
         for name in leg.channels:
             ch = trace.channel(name)
-            idx, width, level = pulses(ch.times, ch.levels)
-            defined = level < Level.X
-            idx, width, level = idx[defined], width[defined], level[defined]
+            idx, width, level = pulses(ch.initial, ch.times, ch.levels)
             if need is None or width.size == 0:
                 continue
             k = int(np.argmin(width))
