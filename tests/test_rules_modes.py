@@ -393,3 +393,28 @@ def test_nine_of_sixteen_two_leg_combinations_are_legal():
         names.append(namer.name(codes))
     assert len(names) == 16 and sum(n != "fault" for n in names) == 9
     assert len(set(names) - {"fault"}) == 9  # and each legal one has its own name
+
+
+@pytest.mark.parametrize(("need", "certainty"), [(505 * NS, "inconclusive"), (510 * NS, "proven")])
+def test_sampled_reversal_bounds_and_certainty(need, certainty):
+    # facts.md section 8 [derived]: each edge lies up to one sample period before its stamp,
+    # so a 500 ns gap sampled every 10 ns lies in (490, 510) ns
+    t = legs_trace(
+        {"A": [(0, 1), (20 * US, 0)], "B": [(0, 0), (20 * US, 1)]}, TWO_LEGS, 40 * US, 500 * NS
+    )
+    t = trace(t.channels.values(), t.end_ps, sample_period_ps=10 * NS)
+    [f] = modes(check_trace(t, TWO_LEGS, Policy(reversal_dwell_ps=need)))
+    assert f.bounds_ps == (490 * NS, 510 * NS)
+    assert str(f.certainty) == certainty
+
+
+def test_reversal_dwell_is_ignored_on_three_legs():
+    t = legs_trace(
+        {"a": [(0, 1), (10 * US, 0)], "b": [(0, 0), (10 * US, 1)], "c": [(0, 0)]},
+        THREE_LEGS,
+        20 * US,
+        500 * NS,
+    )
+    r = check_trace(t, THREE_LEGS, Policy(reversal_dwell_ps=1_000 * US))
+    assert modes(r) == []
+    assert [s["state"] for s in r.extra["states"]["states"] if s["visits"]] == ["V1", "V3"]
