@@ -11,6 +11,7 @@ from ..legs import parse_leg
 from ..model import Bridge, DeadTime, Policy
 from ..reporters import REPORTERS, render
 from ..units import parse_duration
+from ._modes_options import add_mode_options, apply_mode_options, mode_settings, states_view
 from ._output import check_output_path, write_output
 from ._pictures import add_picture_options, check_plots_dir, draw_pictures
 
@@ -20,6 +21,7 @@ EXAMPLES = """examples:
   sequencecheck check capture.csv --leg A=AH,AL --leg B=BH,BL --dead-time 500ns
   sequencecheck check capture.csv --dead-time 1us --active-low AL,BL --format json
   sequencecheck check samples.csv --time-column sample --sample-rate 100e6 --dead-time 200ns
+  sequencecheck check capture.csv --min-pulse 100ns --reversal-dwell 2ms --states
 
 exit status: 0 no violation, 1 at least one violation, 2 usage or input error.
 """
@@ -67,6 +69,7 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     p.add_argument("--output", metavar="FILE", help="write the report to FILE (default: stdout)")
     p.add_argument("--strict", action="store_true", help="warnings fail the run too")
     add_picture_options(p)
+    add_mode_options(p)
     p.set_defaults(func=run_check)
     return p
 
@@ -102,6 +105,7 @@ def run_check(args: argparse.Namespace) -> int:
     check_plots_dir(args.plots)
     bridge = build_bridge(args)
     policy = build_policy(args)
+    policy = apply_mode_options(args, policy)
     read_options = {
         "time_column": args.time_column,
         "time_unit": args.time_unit,
@@ -109,6 +113,9 @@ def run_check(args: argparse.Namespace) -> int:
     }
     report = check(args.inputs, bridge, policy, **read_options)
     report = type(report)(report.inputs, _settings(args, policy))
+    report = type(report)(
+        states_view(report.inputs, args.states), {**report.settings, **mode_settings(policy)}
+    )
     options = {}
     if args.format == "text":
         to_terminal = args.output in (None, "-") and sys.stdout.isatty()

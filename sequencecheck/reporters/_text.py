@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from ..findings import Certainty, DirectionStats, Finding, InputReport, Report
 from ..units import format_time
+from ._states import states_lines
 
 __all__ = ["render_text"]
 
@@ -88,6 +89,7 @@ def _input_block(r: InputReport, paint: _Paint) -> list[str]:
     if r.findings:
         lines.append("  findings:")
         lines += [_finding_line(f, paint) for f in r.findings]
+    lines += states_lines(r)
     lines.append("")
     return lines
 
