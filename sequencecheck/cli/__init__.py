@@ -12,8 +12,7 @@ from collections.abc import Sequence
 
 from .. import __version__
 from ..errors import SequenceCheckError
-from . import _check
-from . import _deadtime
+from . import _check, _deadtime
 
 __all__ = ["build_parser", "main", "run"]
 

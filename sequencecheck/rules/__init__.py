@@ -7,7 +7,9 @@ from collections.abc import Iterable
 from ..findings import InputReport, LegStats
 from ..model import Bridge, Policy, Trace
 from ._base import CheckContext, Rule, RuleResult
+from .bootstrap import BOOTSTRAP_REFRESH
 from .conduction import DEAD_TIME, SHOOT_THROUGH
+from .margins import DEAD_TIME_MARGIN
 
 __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 
@@ -15,6 +17,8 @@ __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 RULES: tuple[Rule, ...] = (
     SHOOT_THROUGH,
     DEAD_TIME,
+    DEAD_TIME_MARGIN,
+    BOOTSTRAP_REFRESH,
 )
 
 
