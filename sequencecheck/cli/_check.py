@@ -12,6 +12,7 @@ from ..model import Bridge, DeadTime, Policy
 from ..reporters import REPORTERS, render
 from ..units import parse_duration
 from ._output import check_output_path, write_output
+from ._physics_flags import add_physics_arguments, apply_physics_arguments, physics_settings
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
 
@@ -65,6 +66,7 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     p.add_argument("--format", choices=sorted(REPORTERS), default="text", help="report format")
     p.add_argument("--output", metavar="FILE", help="write the report to FILE (default: stdout)")
     p.add_argument("--strict", action="store_true", help="warnings fail the run too")
+    add_physics_arguments(p)
     p.set_defaults(func=run_check)
     return p
 
@@ -92,6 +94,7 @@ def _settings(args: argparse.Namespace, policy: Policy) -> dict[str, object]:
         "dead_time_ps": None if policy.dead_time is None else policy.dead_time.high_to_low_ps,
         "legs": list(args.leg),
         "active_low": sorted(c for c in args.active_low.split(",") if c),
+        **physics_settings(args),
     }
 
 
@@ -99,6 +102,7 @@ def run_check(args: argparse.Namespace) -> int:
     check_output_path(args.output)
     bridge = build_bridge(args)
     policy = build_policy(args)
+    bridge, policy = apply_physics_arguments(args, bridge, policy)
     read_options = {
         "time_column": args.time_column,
         "time_unit": args.time_unit,

@@ -15,7 +15,13 @@ from ..model import Bridge, Leg, SwitchTiming
 from ._base import CheckContext
 from ._intervals import Intervals
 
-__all__ = ["effective_intervals", "effective_on", "leg_has_timing", "timing_of"]
+__all__ = [
+    "check_timing_channels",
+    "effective_intervals",
+    "effective_on",
+    "leg_has_timing",
+    "timing_of",
+]
 
 COMMANDED, EFFECTIVE = "commanded", "effective"
 
@@ -28,6 +34,13 @@ def timing_of(bridge: Bridge, channel: str) -> SwitchTiming | None:
 def leg_has_timing(bridge: Bridge, leg: Leg) -> bool:
     """True when either switch of ``leg`` has a timing model."""
     return any(timing_of(bridge, ch) is not None for ch in leg.channels)
+
+
+def check_timing_channels(ctx: CheckContext) -> None:
+    """InputError when a timing model names a channel no leg uses (checked once per run)."""
+    if ("timing-checked",) not in ctx.cache:
+        _check_timing_channels(ctx)
+        ctx.cache[("timing-checked",)] = True
 
 
 def effective_intervals(
@@ -92,9 +105,7 @@ def effective_on(ctx: CheckContext, channel: str) -> Intervals:
     """Effective on-intervals of ``channel``'s switch (commanded ones if it has no timing)."""
     key = ("effective-on", channel)
     if key not in ctx.cache:
-        if ("timing-checked",) not in ctx.cache:
-            _check_timing_channels(ctx)
-            ctx.cache[("timing-checked",)] = True
+        check_timing_channels(ctx)
         timing = timing_of(ctx.bridge, channel)
         on = ctx.on(channel)
         ctx.cache[key] = (

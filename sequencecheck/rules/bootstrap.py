@@ -9,6 +9,7 @@ drain the capacitor between a refresh and the next turn-on.
 
 from __future__ import annotations
 
+from ..errors import InputError
 from ..findings import Finding, WorstMargin
 from ..model import BootstrapSupply, Leg, Source
 from ..physics.bootstrap import BootstrapEvent, BootstrapLimits, walk_high_side
@@ -21,7 +22,7 @@ __all__ = ["BOOTSTRAP_REFRESH"]
 def _message(leg: Leg, e: BootstrapEvent, min_vgs: float) -> str:
     h = e.high
     t = format_time
-    vgs = f"its gate falls to {h.vgs_end_v:.2f} V, below {min_vgs:g} V"
+    vgs = f"its gate falls to {max(h.vgs_end_v, 0.0):.2f} V, below {min_vgs:g} V"
     if e.check == "on-time":
         return (
             f"leg {leg.name}: {leg.high} on for {t(e.measured_ps)}; the bootstrap supply holds "
@@ -48,6 +49,14 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
     result = RuleResult()
     limits = ctx.policy.bootstrap
     start_charged = isinstance(limits, BootstrapLimits) and limits.start_charged
+    names = {leg.name for leg in ctx.bridge.legs}
+    for name in ctx.bridge.bootstrap:
+        if name not in names:
+            raise InputError(
+                f"a bootstrap supply names leg {name!r}, which is not defined "
+                f"(legs: {', '.join(sorted(names)) or 'none'})",
+                path=ctx.trace.path,
+            )
     for leg in ctx.bridge.legs:
         supply = ctx.bridge.bootstrap.get(leg.name)
         if not isinstance(supply, BootstrapSupply):
@@ -79,25 +88,28 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
                     sources=(Source(ctx.trace.path, int(line)),) if line else (),
                     detail={
                         "check": e.check,
-                        "vgs_end_v": round(e.high.vgs_end_v, 6),
+                        "vgs_end_v": round(max(e.high.vgs_end_v, 0.0), 6),
                         "min_vgs_v": supply.min_vgs_v,
                     },
                     margin_ps=e.required_ps - e.measured_ps if more_is_worse else None,
                 )
             )
-        judged = [c for c in checks if c.margin_ps is not None]
-        if judged:
-            w = min(judged, key=lambda c: c.margin_ps or 0)
-            assert w.hold_ps is not None and w.margin_ps is not None
+        # worst margin: a failing interval's finding margin, else hold time minus on-time
+        candidates = [
+            (f.margin_ps, f.start_ps, f.measured_ps, f.required_ps)
+            for f in result.findings
+            if f.leg == leg.name and f.margin_ps is not None and f.required_ps is not None
+        ]
+        failed = {e.high.start_ps for e in events}
+        candidates += [
+            (c.margin_ps, c.start_ps, c.end_ps - c.start_ps, c.hold_ps)
+            for c in checks
+            if c.margin_ps is not None and c.hold_ps is not None and c.start_ps not in failed
+        ]
+        if candidates:
+            m, at, measured, required = min(candidates)
             result.margins.append(
-                WorstMargin(
-                    "bootstrap-refresh",
-                    leg.name,
-                    w.margin_ps,
-                    w.start_ps,
-                    w.end_ps - w.start_ps,
-                    w.hold_ps,
-                )
+                WorstMargin("bootstrap-refresh", leg.name, m, at, measured, required)
             )
     return result
 

@@ -10,7 +10,13 @@ from ..findings import Certainty, DirectionStats, Finding, LegStats, WorstMargin
 from ..model import DeadTime, Direction, Leg, Source
 from ..units import format_time
 from ._base import CheckContext, Rule, RuleResult
-from ._effective import COMMANDED, EFFECTIVE, effective_on, leg_has_timing
+from ._effective import (
+    COMMANDED,
+    EFFECTIVE,
+    check_timing_channels,
+    effective_on,
+    leg_has_timing,
+)
 from ._intervals import Intervals, intersect
 
 __all__ = [
@@ -75,6 +81,7 @@ def _src(path: str, *lines: int) -> tuple[Source, ...]:
 def leg_kinds(ctx: CheckContext, leg: Leg) -> tuple[str, ...]:
     """Which conduction intervals to check on ``leg``: commanded, and effective when
     either switch has a timing model."""
+    check_timing_channels(ctx)
     return (COMMANDED, EFFECTIVE) if leg_has_timing(ctx.bridge, leg) else (COMMANDED,)
 
 
