@@ -56,6 +56,9 @@ def handovers(turning_on: Intervals, turning_off: Intervals, direction: Directio
     """
     idx, on_t = turning_on.edge_starts()
     _, off_t = turning_off.edge_ends()
+    if off_t.size == 0:  # the complement never turned off: no hand-over
+        on_t = on_t[:0]
+        idx = idx[:0]
     j = np.searchsorted(off_t, on_t, side="right") - 1  # latest complement turn-off <= on
     k = np.searchsorted(turning_off.starts, on_t, side="right") - 1  # complement interval
     complement_on = (k >= 0) & (turning_off.ends[np.maximum(k, 0)] > on_t)
