@@ -172,7 +172,7 @@ def walk_high_side(
 
     The capacitor starts empty (``start_charged`` False), so the first high-side
     turn-on needs a pre-charge pulse. A high-side interval already on when the
-    window opens starts from a full capacitor and is measured, not judged by refresh.
+    window opens is given a full capacitor: only its length is judged.
     """
     full = full_voltage(s)
     budget = allowed_droop(s)
@@ -211,7 +211,7 @@ def walk_high_side(
             n == 0,
         )
         checks.append(check)
-        if margin is not None and margin < 0 and not (n == 0 and high_clipped_start):
+        if margin is not None and margin < 0:
             events.append(_classify(s, check, budget, on_ps, pulse_droop if last_end else droop))
         droop = min(droop + (s.gate_charge_c + s.leakage_a * on_ps * PS) / s.capacitance_f, full)
         t = he
