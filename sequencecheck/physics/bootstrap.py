@@ -166,56 +166,62 @@ def walk_high_side(
     *,
     high_clipped_start: bool = False,
     start_charged: bool = False,
-) -> tuple[list[HighSideCheck], list[BootstrapEvent]]:
+) -> tuple[HighSideCheck | None, list[BootstrapEvent]]:
     """Follow the capacitor through the high- and low-side on-intervals (sorted, disjoint
     per side) and check every high-side on-interval.
 
-    The capacitor starts empty (``start_charged`` False), so the first high-side
-    turn-on needs a pre-charge pulse. A high-side interval already on when the
-    window opens is given a full capacitor: only its length is judged.
+    Returns the passing interval with the smallest margin (None if none passed or
+    nothing leaks) and an event for every failing one. The capacitor starts empty
+    (``start_charged`` False), so the first high-side turn-on needs a pre-charge
+    pulse. A high-side interval already on when the window opens is given a full
+    capacitor: only its length is judged.
     """
     full = full_voltage(s)
     budget = allowed_droop(s)
+    c, qg, leak = s.capacitance_f, s.gate_charge_c, s.leakage_a
+    tau = s.resistance_ohm * c
+    drain_per_ps = leak * PS / c
     droop = 0.0 if start_charged else full
-    checks: list[HighSideCheck] = []
     events: list[BootstrapEvent] = []
+    worst: HighSideCheck | None = None
+    worst_margin = math.inf
     t = start_ps
-    j = 0
+    j, n_low = 0, len(low)
     for n, (hs, he) in enumerate(high):
         last_pulse, last_end, pulse_droop = 0, None, 0.0
-        while j < len(low) and low[j][0] < hs:
-            ls, le = max(low[j][0], t), min(low[j][1], hs)
-            if le > ls:
-                droop = _drain(droop, s, ls - t, full)
-                droop_before_pulse = droop
-                droop = _charge(droop, s, le - ls)
-                last_pulse, last_end, pulse_droop = le - ls, le, droop_before_pulse
-                t = le
-            if low[j][1] <= hs:
+        while j < n_low and low[j][0] < hs:
+            ls, le = low[j]
+            ls, cut = max(ls, t), min(le, hs)
+            if cut > ls:
+                droop = min(droop + (ls - t) * drain_per_ps, full)
+                pulse_droop = droop
+                droop = 0.0 if tau == 0 else droop * math.exp(-(cut - ls) * PS / tau)
+                last_pulse, last_end, t = cut - ls, cut, cut
+            if le <= hs:
                 j += 1
             else:
                 break
-        droop = 0.0 if n == 0 and high_clipped_start else _drain(droop, s, hs - t, full)
+        clipped = n == 0 and high_clipped_start
+        droop = 0.0 if clipped else min(droop + (hs - t) * drain_per_ps, full)
         on_ps = he - hs
-        hold = hold_time_ps(s, droop)
-        margin = None if hold is None else hold - on_ps
-        check = HighSideCheck(
-            hs,
-            he,
-            droop,
-            hold,
-            margin,
-            vgs_after(s, on_ps * PS, droop),
-            last_pulse,
-            last_end,
-            n == 0,
-        )
-        checks.append(check)
-        if margin is not None and margin < 0:
-            events.append(_classify(s, check, budget, on_ps, pulse_droop if last_end else droop))
-        droop = min(droop + (s.gate_charge_c + s.leakage_a * on_ps * PS) / s.capacitance_f, full)
+        spare = c * (budget - droop) - qg
+        if leak == 0:
+            margin = -1 if spare < 0 else None
+            hold = -1 if spare < 0 else None
+        else:
+            hold = -1 if spare < 0 else math.floor(spare / leak / PS)
+            margin = hold - on_ps
+        if margin is not None and (margin < 0 or margin < worst_margin):
+            vgs = vgs_after(s, on_ps * PS, droop)
+            check = HighSideCheck(hs, he, droop, hold, margin, vgs, last_pulse, last_end, n == 0)
+            if margin < 0:
+                start_droop = pulse_droop if last_end is not None else droop
+                events.append(_classify(s, check, budget, on_ps, start_droop))
+            else:
+                worst, worst_margin = check, margin
+        droop = min(droop + (qg + leak * on_ps * PS) / c, full)
         t = he
-    return checks, events
+    return worst, events
 
 
 def _classify(

@@ -62,7 +62,7 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
         if not isinstance(supply, BootstrapSupply):
             continue
         high, low = ctx.on(leg.high), ctx.on(leg.low)
-        checks, events = walk_high_side(
+        passing, events = walk_high_side(
             supply,
             list(zip(high.starts.tolist(), high.ends.tolist(), strict=True)),
             list(zip(low.starts.tolist(), low.ends.tolist(), strict=True)),
@@ -100,12 +100,15 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
             for f in result.findings
             if f.leg == leg.name and f.margin_ps is not None and f.required_ps is not None
         ]
-        failed = {e.high.start_ps for e in events}
-        candidates += [
-            (c.margin_ps, c.start_ps, c.end_ps - c.start_ps, c.hold_ps)
-            for c in checks
-            if c.margin_ps is not None and c.hold_ps is not None and c.start_ps not in failed
-        ]
+        if passing is not None and passing.margin_ps is not None and passing.hold_ps is not None:
+            candidates.append(
+                (
+                    passing.margin_ps,
+                    passing.start_ps,
+                    passing.end_ps - passing.start_ps,
+                    passing.hold_ps,
+                )
+            )
         if candidates:
             m, at, measured, required = min(candidates)
             result.margins.append(
