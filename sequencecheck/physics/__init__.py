@@ -3,6 +3,20 @@
 Pure functions of their arguments; the rules and the calculator commands use them.
 """
 
+# bootstrap
+from .bootstrap import (
+    BootstrapLimits,
+    allowed_droop,
+    full_voltage,
+    longest_on_time_s,
+    minimum_capacitance,
+    refresh_time_s,
+    switch_drop_v,
+    total_charge,
+    vgs_after,
+    walk_high_side,
+)
+
 # cautions
 from .cautions import CAUTION
 
@@ -20,10 +34,20 @@ from .quantities import parse_quantity
 
 __all__ = [
     "CAUTION",
+    "BootstrapLimits",
     "DeadTimeBudget",
     "SwitchDelays",
+    "allowed_droop",
     "dead_time_error_voltage",
+    "full_voltage",
+    "longest_on_time_s",
+    "minimum_capacitance",
     "minimum_dead_time",
     "parse_quantity",
     "real_dead_time",
+    "refresh_time_s",
+    "switch_drop_v",
+    "total_charge",
+    "vgs_after",
+    "walk_high_side",
 ]
