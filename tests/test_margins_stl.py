@@ -144,7 +144,8 @@ def test_margins_match_rtamt(signals, dead_ticks):
         assert _holds_dead_time(len(h), h, lo)
         return
     assert (dead.margin_ps >= 0) == _holds_dead_time(dead_ticks, h, lo)
-    gap = (dead.margin_ps + dead_ticks * NS) // NS  # smallest gap, overlaps counted negative
+    gap, rest = divmod(dead.margin_ps + dead_ticks * NS, NS)  # smallest gap, overlaps negative
+    assert rest == 0  # every gap on a tick grid is whole ticks
     assert shoot.margin_ps == gap * NS
     if gap >= 1:
         assert _holds_dead_time(gap, h, lo)
