@@ -10,6 +10,7 @@ import warnings
 
 import numpy as np
 import pytest
+from cli_inprocess import run_here
 from conftest import run_cli
 from hypothesis import given, settings
 from hypothesis import strategies as st
@@ -168,7 +169,7 @@ def test_require_margin_fails_the_run(write_csv):
     clean = run_cli("check", path, "--dead-time", "100ns", "--require-margin", "10ns")
     assert clean.returncode == 0, clean.stdout + clean.stderr
     assert "A dead-time 12 ns @ 2.112 us" in clean.stdout  # worst margin shown on a clean run
-    short = run_cli("check", path, "--dead-time", "100ns", "--require-margin", "20ns")
+    short = run_here("check", path, "--dead-time", "100ns", "--require-margin", "20ns")
     assert short.returncode == 1
     assert "dead-time-margin" in short.stdout and "below the required margin 20 ns" in short.stdout
 
@@ -176,5 +177,5 @@ def test_require_margin_fails_the_run(write_csv):
 @pytest.mark.parametrize("bad", ["-5ns", "5V", "abc", "5"])
 def test_require_margin_bad_value_exits_2(write_csv, bad):
     path = write_csv("time_ns,AH,AL\n0,1,0\n1000,0,0\n1120,0,1\n")
-    r = run_cli("check", path, "--require-margin", bad)
+    r = run_here("check", path, "--require-margin", bad)
     assert r.returncode == 2 and r.stderr.count("\n") == 1

@@ -7,6 +7,7 @@ import math
 
 import numpy as np
 import pytest
+from cli_inprocess import run_here
 from conftest import run_cli
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
@@ -221,7 +222,7 @@ def test_cli_figures_and_caution():
 
 
 def test_cli_json_vgs_and_refresh():
-    r = run_cli(*BOOT, "--on-time", "0.4ms", "--format", "json")
+    r = run_here(*BOOT, "--on-time", "0.4ms", "--format", "json")
     doc = json.loads(r.stdout)
     # 0.4 ms draws 54 nC + 46 nC = 100 nC = 1 V from 100 nF (facts.md section 3 [derived])
     assert doc["droop_end_v"] == pytest.approx(1.0)
@@ -233,7 +234,7 @@ def test_cli_json_vgs_and_refresh():
 def test_cli_warns_above_the_usual_gate_maximum():
     args = list(BOOT)
     args[args.index("12V")] = "24V"
-    r = run_cli(*args, "--on-time", "1ms")
+    r = run_here(*args, "--on-time", "1ms")
     assert "above the usual +/-20 V gate-source maximum" in r.stdout
 
 
@@ -253,23 +254,23 @@ def test_cli_bad_input_exits_2(flag, value):
         args[args.index(flag) + 1] = value
     else:
         args += [flag, value]
-    r = run_cli(*args)
+    r = run_here(*args)
     assert r.returncode == 2 and r.stderr.count("\n") == 1 and "Traceback" not in r.stderr
 
 
 def test_cli_missing_parameter_exits_2():
-    r = run_cli(*BOOT[:-4])
+    r = run_here(*BOOT[:-4])
     assert r.returncode == 2 and "--min-vgs" in r.stderr
 
 
 def test_check_flag_runs_the_rule(write_csv):
     path = write_csv("time_us,AH,AL\n0,0,0\n10,1,0\n30,0,0\n40,0,0\n")
     spec = "A:cap=100nF,gate-charge=54nC,leakage=115uA,supply=12V,diode=0.85V,min-vgs=4.45V,resistance=10ohm"
-    r = run_cli("check", path, "--leg", "A=AH,AL", "--bootstrap", spec)
+    r = run_here("check", path, "--leg", "A=AH,AL", "--bootstrap", spec)
     assert r.returncode == 1 and "pre-charge" in r.stdout
-    r = run_cli(
+    r = run_here(
         "check", path, "--leg", "A=AH,AL", "--bootstrap", spec, "--bootstrap-start", "charged"
     )
     assert r.returncode == 0, r.stdout
-    bad = run_cli("check", path, "--leg", "A=AH,AL", "--bootstrap", spec.replace("cap=100nF,", ""))
+    bad = run_here("check", path, "--leg", "A=AH,AL", "--bootstrap", spec.replace("cap=100nF,", ""))
     assert bad.returncode == 2 and "missing cap" in bad.stderr

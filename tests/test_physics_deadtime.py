@@ -4,6 +4,7 @@ import json
 from decimal import Decimal
 
 import pytest
+from cli_inprocess import run_here
 from conftest import run_cli
 
 from sequencecheck.errors import UsageError
@@ -99,7 +100,7 @@ def test_cli_prints_formula_terms_and_caution():
 
 
 def test_cli_json_voltage_error():
-    r = run_cli(
+    r = run_here(
         "deadtime", "--turn-off-delay-max", "0.8us", "--fall-max", "0",
         "--turn-on-delay-min", "0.1us", "--driver-delay-max", "0.5us",
         "--driver-delay-min", "0.1us", "--commanded", "2us", "--bus-voltage", "300V",
@@ -128,12 +129,12 @@ def test_cli_bad_input_exits_2_with_one_line(change):
         args[args.index(change[0]) + 1] = change[1]
     else:
         args += change
-    r = run_cli(*args)
+    r = run_here(*args)
     assert r.returncode == 2
     assert r.stderr.count("\n") == 1 and "Traceback" not in r.stderr
 
 
 def test_cli_missing_parameter_exits_2():
-    r = run_cli(*ARGS[:-2])
+    r = run_here(*ARGS[:-2])
     assert r.returncode == 2
     assert "--driver-delay-min" in r.stderr and r.stderr.count("\n") == 1

@@ -6,6 +6,7 @@ import json
 
 import numpy as np
 import pytest
+from cli_inprocess import run_here
 from conftest import run_cli
 from hypothesis import given, settings
 from hypothesis import strategies as st
@@ -199,7 +200,7 @@ def test_cli_reports_commanded_and_effective(write_csv):
     }
     assert kinds[("dead-time", "commanded")] == 30_000
     assert kinds[("dead-time", "effective")] == -13_000
-    text = run_cli("check", path, "--dead-time", "50ns", "--switch-timing", TIMING_FLAG).stdout
+    text = run_here("check", path, "--dead-time", "50ns", "--switch-timing", TIMING_FLAG).stdout
     assert "A shoot-through (effective) -13 ns" in text
     assert "conduct together for 13 ns with worst-case switch timing (effective)" in text
 
@@ -217,12 +218,12 @@ def test_cli_reports_commanded_and_effective(write_csv):
     ],
 )
 def test_cli_bad_switch_timing_exits_2(write_csv, flag):
-    r = run_cli("check", write_csv(TABLE), "--leg", "A=AH,AL", "--switch-timing", flag)
+    r = run_here("check", write_csv(TABLE), "--leg", "A=AH,AL", "--switch-timing", flag)
     assert r.returncode == 2, r.stdout
     assert r.stderr.count("\n") == 1 and "Traceback" not in r.stderr
 
 
 def test_cli_unknown_timing_channel_with_guessed_legs_exits_2(write_csv):
     path = write_csv(TABLE.replace("AH", "A_H").replace("AL", "A_L"))
-    r = run_cli("check", path, "--switch-timing", "QH:fall=3ns")
+    r = run_here("check", path, "--switch-timing", "QH:fall=3ns")
     assert r.returncode == 2 and "'QH'" in r.stderr and r.stderr.count("\n") == 1
