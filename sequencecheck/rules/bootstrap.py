@@ -13,6 +13,7 @@ from ..errors import InputError
 from ..findings import Finding, WorstMargin
 from ..model import BootstrapSupply, Leg, Source
 from ..physics.bootstrap import BootstrapEvent, BootstrapLimits, walk_high_side
+from ..physics.cautions import CAUTION
 from ..units import format_time
 from ._base import CheckContext, Rule, RuleResult
 
@@ -61,6 +62,7 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
         supply = ctx.bridge.bootstrap.get(leg.name)
         if not isinstance(supply, BootstrapSupply):
             continue
+        result.extra["caution"] = CAUTION
         high, low = ctx.on(leg.high), ctx.on(leg.low)
         passing, events = walk_high_side(
             supply,

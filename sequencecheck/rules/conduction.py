@@ -8,6 +8,7 @@ import numpy as np
 
 from ..findings import Certainty, DirectionStats, Finding, LegStats, WorstMargin
 from ..model import DeadTime, Direction, Leg, Source
+from ..physics.cautions import CAUTION
 from ..units import format_time
 from ._base import CheckContext, Rule, RuleResult
 from ._effective import (
@@ -110,6 +111,8 @@ def _check_shoot_through(ctx: CheckContext) -> RuleResult:
     for leg in ctx.bridge.legs:
         for kind in leg_kinds(ctx, leg):
             _shoot_through_leg(ctx, leg, kind, result)
+            if kind == EFFECTIVE:  # physical judgement: carry the caution
+                result.extra["caution"] = CAUTION
     return result
 
 
