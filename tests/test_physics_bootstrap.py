@@ -267,7 +267,7 @@ def test_check_flag_runs_the_rule(write_csv):
     path = write_csv("time_us,AH,AL\n0,0,0\n10,1,0\n30,0,0\n40,0,0\n")
     spec = "A:cap=100nF,gate-charge=54nC,leakage=115uA,supply=12V,diode=0.85V,min-vgs=4.45V,resistance=10ohm"
     r = run_here("check", path, "--leg", "A=AH,AL", "--bootstrap", spec)
-    assert r.returncode == 1 and "pre-charge" in r.stdout
+    assert r.returncode == 1 and "pre-charge" in r.stdout and "injure and burn" in r.stdout
     r = run_here(
         "check", path, "--leg", "A=AH,AL", "--bootstrap", spec, "--bootstrap-start", "charged"
     )

@@ -203,6 +203,8 @@ def test_cli_reports_commanded_and_effective(write_csv):
     text = run_here("check", path, "--dead-time", "50ns", "--switch-timing", TIMING_FLAG).stdout
     assert "A shoot-through (effective) -13 ns" in text
     assert "conduct together for 13 ns with worst-case switch timing (effective)" in text
+    assert "datasheet review" in text and "injure and burn" in text  # a physical judgement
+    assert "injure and burn" in doc["summary"]["inputs"][0]["caution"]
 
 
 @pytest.mark.parametrize(
