@@ -38,7 +38,7 @@ def test_worked_example_effective_overlap():
     # 100+11 ns; HS off path 130+39+35 ns -> effective gap -13 ns: 13 ns overlap
     bridge = Bridge((LEG,), timing={"AH": TIMING, "AL": TIMING})
     report = check_trace(_handover_trace(80), bridge, Policy(dead_time=DeadTime.both(50 * NS)))
-    [finding] = report.findings
+    [finding] = report.violations
     assert finding.rule == "shoot-through" and finding.detail["kind"] == "effective"
     assert finding.measured_ps == 13 * NS and finding.margin_ps == -13 * NS
     assert finding.start_ps == 1191 * NS and finding.end_ps == 1204 * NS
@@ -52,14 +52,14 @@ def test_effective_gap_meets_a_physical_minimum():
     # command gap 150 ns leaves 150 - 204 + 111 = 57 ns at the devices (S1 Eq. 28 [published])
     bridge = Bridge((LEG,), timing={"AH": TIMING, "AL": TIMING})
     ok = check_trace(_handover_trace(150), bridge, Policy())
-    assert not ok.findings
+    assert not ok.violations
     assert {(m.rule, m.kind): m.margin_ps for m in ok.margins}[
         ("dead-time", "effective")
     ] == 57 * NS
     short = check_trace(
         _handover_trace(150), bridge, Policy(effective_dead_time=DeadTime.both(60 * NS))
     )
-    [f] = short.findings
+    [f] = short.violations
     assert (f.rule, f.detail["kind"], f.measured_ps, f.required_ps) == (
         "dead-time",
         "effective",

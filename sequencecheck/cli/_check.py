@@ -13,6 +13,7 @@ from ..reporters import REPORTERS, render
 from ..units import parse_duration
 from ._output import check_output_path, write_output
 from ._physics_flags import add_physics_arguments, apply_physics_arguments, physics_settings
+from ._pictures import add_picture_options, check_plots_dir, draw_pictures
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
 
@@ -66,6 +67,7 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     p.add_argument("--format", choices=sorted(REPORTERS), default="text", help="report format")
     p.add_argument("--output", metavar="FILE", help="write the report to FILE (default: stdout)")
     p.add_argument("--strict", action="store_true", help="warnings fail the run too")
+    add_picture_options(p)
     add_physics_arguments(p)
     p.set_defaults(func=run_check)
     return p
@@ -100,6 +102,7 @@ def _settings(args: argparse.Namespace, policy: Policy) -> dict[str, object]:
 
 def run_check(args: argparse.Namespace) -> int:
     check_output_path(args.output)
+    check_plots_dir(args.plots)
     bridge = build_bridge(args)
     policy = build_policy(args)
     bridge, policy = apply_physics_arguments(args, bridge, policy)
@@ -114,6 +117,7 @@ def run_check(args: argparse.Namespace) -> int:
     if args.format == "text":
         to_terminal = args.output in (None, "-") and sys.stdout.isatty()
         options["colour"] = to_terminal and "NO_COLOR" not in os.environ
+    options.update(draw_pictures(args, report, bridge, policy, read_options))
     write_output(render(report, args.format, **options), args.output)
     for r in report.errors:
         print(f"sequencecheck: error: {r.error}", file=sys.stderr)

@@ -14,6 +14,7 @@ Each row's values hold until the next row's time.
 from __future__ import annotations
 
 import csv
+import math
 import os
 import re
 from collections.abc import Iterator, Sequence
@@ -125,6 +126,7 @@ def _arrow_batches(path: str, layout: CsvLayout, columns: Sequence[str]) -> Iter
         convert_options=pacsv.ConvertOptions(
             column_types=types,
             include_columns=[time_name, *columns],
+            null_values=[],
             strings_can_be_null=False,
             quoted_strings_can_be_null=False,
         ),
@@ -164,8 +166,12 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
             try:
                 if layout.ps_per_tick is None:
                     int(t)
-                else:
-                    float(t)
+                elif not math.isfinite(float(t)):
+                    return InputError(
+                        f"column {time_name!r}: expected a finite time, found {t!r}",
+                        path=path,
+                        line=line,
+                    )
             except ValueError:
                 kind = "a sample index" if layout.ps_per_tick is None else "a number"
                 return InputError(
@@ -203,7 +209,7 @@ class _EdgeCollector:
             self.lines.append(idx.astype(np.int64) + first_line)
         self.last = int(values[-1])
 
-    def channel(self, name: str) -> Channel:
+    def channel(self, name: str, start_ps: int) -> Channel:
         def cat(parts: list[np.ndarray], dtype: type) -> np.ndarray:
             return np.concatenate(parts) if parts else np.empty(0, dtype=dtype)
 
@@ -213,6 +219,7 @@ class _EdgeCollector:
             cat(self.times, np.int64),
             cat(self.levels, np.int8),
             cat(self.lines, np.int64),
+            start_ps=start_ps,
         )
 
 
@@ -308,7 +315,7 @@ def read_csv(
         period = max_step  # uniformly spaced rows are samples
     end = last_t + (period or 0)
     return Trace(
-        channels={name: c.channel(name) for name, c in collectors.items()},
+        channels={name: c.channel(name, first_t) for name, c in collectors.items()},
         start_ps=first_t,
         end_ps=end,
         path=path,

@@ -10,6 +10,7 @@ from ._base import CheckContext, Rule, RuleResult
 from .bootstrap import BOOTSTRAP_REFRESH
 from .conduction import DEAD_TIME, SHOOT_THROUGH
 from .margins import DEAD_TIME_MARGIN
+from .sanity import SHORT_CAPTURE, STUCK_CHANNEL, TWIN_CHANNELS
 
 __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 
@@ -17,6 +18,9 @@ __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 RULES: tuple[Rule, ...] = (
     SHOOT_THROUGH,
     DEAD_TIME,
+    STUCK_CHANNEL,
+    TWIN_CHANNELS,
+    SHORT_CAPTURE,
     DEAD_TIME_MARGIN,
     BOOTSTRAP_REFRESH,
 )
