@@ -173,7 +173,15 @@ def bootstrap_figures(args: argparse.Namespace) -> dict[str, object]:
 
 
 def _si(value: float, unit: str) -> str:
-    for prefix, scale in (("M", 1e6), ("k", 1e3), ("", 1.0), ("m", 1e-3), ("u", 1e-6), ("n", 1e-9), ("p", 1e-12)):
+    for prefix, scale in (
+        ("M", 1e6),
+        ("k", 1e3),
+        ("", 1.0),
+        ("m", 1e-3),
+        ("u", 1e-6),
+        ("n", 1e-9),
+        ("p", 1e-12),
+    ):
         if abs(value) >= scale or scale == 1e-12:
             return f"{value / scale:.4g} {prefix}{unit}"
     return f"{value:g} {unit}"  # pragma: no cover
