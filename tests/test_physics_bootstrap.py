@@ -144,6 +144,13 @@ def test_clean_pwm_reports_a_positive_margin():
     assert m.margin_ps > 0 and m.measured_ps == on
 
 
+def test_unworkable_supply_is_an_input_error():
+    from sequencecheck import InputError
+
+    with pytest.raises(InputError, match="leg A: capacitance"):
+        _findings([(10 * US, 30 * US)], [], 50 * US, BootstrapSupply(0, 54e-9, 0, 12, 0.85, 4.45))
+
+
 # --- a step-by-step simulation of the capacitor as the independent reference ---
 
 

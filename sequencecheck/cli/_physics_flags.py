@@ -14,7 +14,7 @@ from typing import Any
 
 from ..errors import UsageError
 from ..model import BootstrapSupply, Bridge, DeadTime, Policy, SwitchTiming
-from ..physics.bootstrap import BootstrapLimits
+from ..physics.bootstrap import BootstrapLimits, supply_problem
 from ..physics.quantities import parse_quantity
 from ..units import parse_duration
 
@@ -141,13 +141,9 @@ def parse_bootstrap(text: str) -> tuple[list[str], BootstrapSupply]:
 
 def check_supply(s: BootstrapSupply, what: str) -> BootstrapSupply:
     """UsageError when a supply cannot work at all (no voltage left above the minimum)."""
-    if s.diode_drop_v >= s.supply_v:
-        raise UsageError(f"{what}: diode drop {s.diode_drop_v:g} V is not below the supply")
-    if s.min_vgs_v >= s.supply_v - s.diode_drop_v:
-        raise UsageError(
-            f"{what}: min-vgs {s.min_vgs_v:g} V is not below supply minus diode drop "
-            f"({s.supply_v - s.diode_drop_v:g} V)"
-        )
+    problem = supply_problem(s)
+    if problem is not None:
+        raise UsageError(f"{what}: {problem}")
     return s
 
 

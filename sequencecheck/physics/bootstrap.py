@@ -29,6 +29,7 @@ __all__ = [
     "longest_on_time_s",
     "minimum_capacitance",
     "refresh_time_s",
+    "supply_problem",
     "switch_drop_v",
     "total_charge",
     "vgs_after",
@@ -36,6 +37,25 @@ __all__ = [
 ]
 
 PS = 1e-12
+
+
+def supply_problem(s: BootstrapSupply) -> str | None:
+    """Why ``s`` cannot describe a working supply, or None when it can."""
+    values = (s.capacitance_f, s.gate_charge_c, s.leakage_a, s.supply_v, s.diode_drop_v)
+    if not all(math.isfinite(v) for v in (*values, s.min_vgs_v, s.resistance_ohm)):
+        return "every value must be a finite number"
+    if s.capacitance_f <= 0 or s.supply_v <= 0 or s.min_vgs_v <= 0:
+        return "capacitance, supply and minimum gate voltage must be above zero"
+    if min(s.gate_charge_c, s.leakage_a, s.diode_drop_v, s.resistance_ohm) < 0:
+        return "gate charge, leakage, diode drop and resistance must not be negative"
+    if s.diode_drop_v >= s.supply_v:
+        return f"diode drop {s.diode_drop_v:g} V is not below the supply {s.supply_v:g} V"
+    if s.min_vgs_v >= s.supply_v - s.diode_drop_v:
+        return (
+            f"minimum gate voltage {s.min_vgs_v:g} V is not below supply minus diode drop "
+            f"({s.supply_v - s.diode_drop_v:g} V)"
+        )
+    return None
 
 
 def full_voltage(s: BootstrapSupply) -> float:

@@ -12,7 +12,7 @@ from __future__ import annotations
 from ..errors import InputError
 from ..findings import Finding, WorstMargin
 from ..model import BootstrapSupply, Leg, Source
-from ..physics.bootstrap import BootstrapEvent, BootstrapLimits, walk_high_side
+from ..physics.bootstrap import BootstrapEvent, BootstrapLimits, supply_problem, walk_high_side
 from ..physics.cautions import CAUTION
 from ..units import format_time
 from ._base import CheckContext, Rule, RuleResult
@@ -62,6 +62,9 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
         supply = ctx.bridge.bootstrap.get(leg.name)
         if not isinstance(supply, BootstrapSupply):
             continue
+        problem = supply_problem(supply)
+        if problem is not None:
+            raise InputError(f"bootstrap supply of leg {leg.name}: {problem}", path=ctx.trace.path)
         result.extra["caution"] = CAUTION
         high, low = ctx.on(leg.high), ctx.on(leg.low)
         passing, events = walk_high_side(
