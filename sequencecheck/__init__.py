@@ -21,6 +21,10 @@ from .findings import Certainty, Finding, InputReport, LegStats, Report, Severit
 
 # model
 from .model import Bridge, Channel, DeadTime, Direction, Leg, Level, Policy, Source, Trace
+from .model._physics import BootstrapSupply, SwitchTiming
+
+# physics
+from .physics import BootstrapLimits
 
 # readers
 from .readers import read, read_csv
@@ -33,6 +37,8 @@ from .units import format_time, parse_duration
 
 __all__ = [
     "RULES",
+    "BootstrapLimits",
+    "BootstrapSupply",
     "Bridge",
     "Certainty",
     "Channel",
@@ -49,6 +55,7 @@ __all__ = [
     "SequenceCheckError",
     "Severity",
     "Source",
+    "SwitchTiming",
     "Trace",
     "UsageError",
     "WorstMargin",

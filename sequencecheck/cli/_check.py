@@ -13,6 +13,7 @@ from ..reporters import REPORTERS, render
 from ..units import parse_duration
 from ._modes_options import add_mode_options, apply_mode_options, mode_settings, states_view
 from ._output import check_output_path, write_output
+from ._physics_flags import add_physics_arguments, apply_physics_arguments, physics_settings
 from ._pictures import add_picture_options, check_plots_dir, draw_pictures
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
@@ -70,6 +71,8 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     p.add_argument("--strict", action="store_true", help="warnings fail the run too")
     add_picture_options(p)
     add_mode_options(p)
+
+    add_physics_arguments(p)
     p.set_defaults(func=run_check)
     return p
 
@@ -97,6 +100,7 @@ def _settings(args: argparse.Namespace, policy: Policy) -> dict[str, object]:
         "dead_time_ps": None if policy.dead_time is None else policy.dead_time.high_to_low_ps,
         "legs": list(args.leg),
         "active_low": sorted(c for c in args.active_low.split(",") if c),
+        **physics_settings(args),
     }
 
 
@@ -106,6 +110,8 @@ def run_check(args: argparse.Namespace) -> int:
     bridge = build_bridge(args)
     policy = build_policy(args)
     policy = apply_mode_options(args, policy)
+
+    bridge, policy = apply_physics_arguments(args, bridge, policy)
     read_options = {
         "time_column": args.time_column,
         "time_unit": args.time_unit,

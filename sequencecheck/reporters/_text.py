@@ -81,6 +81,8 @@ def _input_block(r: InputReport, paint: _Paint) -> list[str]:
                 for m in r.margins
             )
         )
+    if isinstance(r.extra.get("caution"), str):  # set by rules that judge hardware
+        lines.append(paint(_YELLOW, f"  {r.extra['caution']}"))
     not_proven = sum(d.not_proven for s in r.leg_stats for d in (s.high_to_low, s.low_to_high))
     if not_proven:
         lines.append(

@@ -7,7 +7,9 @@ from collections.abc import Iterable
 from ..findings import InputReport, LegStats
 from ..model import Bridge, Policy, Trace
 from ._base import CheckContext, Rule, RuleResult
+from .bootstrap import BOOTSTRAP_REFRESH
 from .conduction import DEAD_TIME, SHOOT_THROUGH
+from .margins import DEAD_TIME_MARGIN
 from .modes import MODE_TRANSITION
 from .pulses import MIN_PULSE
 from .sanity import SHORT_CAPTURE, STUCK_CHANNEL, TWIN_CHANNELS
@@ -25,6 +27,9 @@ RULES: tuple[Rule, ...] = (
     MODE_TRANSITION,
     MIN_PULSE,
     UNKNOWN_STATE,
+
+    DEAD_TIME_MARGIN,
+    BOOTSTRAP_REFRESH,
 )
 
 
