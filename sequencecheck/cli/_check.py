@@ -11,6 +11,7 @@ from ..legs import parse_leg
 from ..model import Bridge, DeadTime, Policy
 from ..reporters import REPORTERS, render
 from ..units import parse_duration
+from ._bridge_file import add_bridge_argument, apply_bridge_file
 from ._output import check_output_path, write_output
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
@@ -19,6 +20,8 @@ EXAMPLES = """examples:
   sequencecheck check capture.csv --leg A=AH,AL --leg B=BH,BL --dead-time 500ns
   sequencecheck check capture.csv --dead-time 1us --active-low AL,BL --format json
   sequencecheck check samples.csv --time-column sample --sample-rate 100e6 --dead-time 200ns
+  sequencecheck check reversal.steps            (a table brings its bridge and limits)
+  sequencecheck check capture.csv --bridge drive.bridge --dead-time 1us
 
 exit status: 0 no violation, 1 at least one violation, 2 usage or input error.
 """
@@ -65,6 +68,7 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     p.add_argument("--format", choices=sorted(REPORTERS), default="text", help="report format")
     p.add_argument("--output", metavar="FILE", help="write the report to FILE (default: stdout)")
     p.add_argument("--strict", action="store_true", help="warnings fail the run too")
+    add_bridge_argument(p)
     p.set_defaults(func=run_check)
     return p
 
@@ -99,6 +103,7 @@ def run_check(args: argparse.Namespace) -> int:
     check_output_path(args.output)
     bridge = build_bridge(args)
     policy = build_policy(args)
+    bridge, policy = apply_bridge_file(args, bridge, policy)
     read_options = {
         "time_column": args.time_column,
         "time_unit": args.time_unit,
