@@ -10,6 +10,7 @@ raises InputError with path, line and column.
 from __future__ import annotations
 
 import os
+import re
 import threading
 from dataclasses import dataclass, field
 from typing import Any
@@ -39,6 +40,13 @@ from ._values import duration_ps, quantity, time_ps
 __all__ = ["Loaded", "load"]
 
 _STEP_KINDS = frozenset({"step", "repeat", "close", "end"})
+#: Words that start a statement (grammar/bridge.lark). The lexer would read ``leggy``
+#: as ``leg`` followed by ``gy``, so a line's first word is checked against these.
+KEYWORDS = frozenset(
+    "include leg active-low dead-time min-pulse min-margin reversal-dwell mode allow forbid "
+    "dwell scheme timing bootstrap repeat end".split()
+)
+_FIRST_WORD = re.compile(r"[A-Za-z_][\w-]*")
 _TIMING_FIELDS = {
     "turn-on-delay": "turn_on_delay_ps",
     "turn-off-delay": "turn_off_delay_ps",
@@ -178,6 +186,13 @@ class _Loader:
                 continue
             self.line = number
             self.column = len(raw) - len(stripped) + 1
+            word = _FIRST_WORD.match(stripped)
+            if word is not None and word.group(0) not in KEYWORDS:
+                raise self.error(
+                    f"unknown statement {word.group(0)!r}; expected a step (a time such as 0 or "
+                    "+750ns) or a statement such as leg, mode, dead-time, allow, repeat, include",
+                    column=self.column,
+                )
             try:
                 statement = parse(raw)
             except UnexpectedInput as e:
