@@ -33,7 +33,10 @@ def load(tmp_path):
 
 def test_legs_and_polarity(load):
     bridge, _ = load(LEGS + "active-low AL BL\n")
-    assert [(leg.name, leg.high, leg.low) for leg in bridge.legs] == [("A", "AH", "AL"), ("B", "BH", "BL")]
+    assert [(leg.name, leg.high, leg.low) for leg in bridge.legs] == [
+        ("A", "AH", "AL"),
+        ("B", "BH", "BL"),
+    ]
     assert bridge.active_low == {"AL", "BL"}
     assert bridge.on_level("AL") == 0 and bridge.on_level("AH") == 1
 
@@ -146,7 +149,9 @@ def test_include_chains_and_sources(tmp_path):
 def test_sample_bridge_loads():
     from pathlib import Path
 
-    bridge, policy = load_bridge(str(Path(__file__).resolve().parent.parent / "samples" / "cart.bridge"))
+    bridge, policy = load_bridge(
+        str(Path(__file__).resolve().parent.parent / "samples" / "cart.bridge")
+    )
     assert [leg.name for leg in bridge.legs] == ["A", "B"]
     assert {m.name for m in bridge.modes} == {"coast", "forward", "reverse", "brake"}
     assert policy.dead_time_for("B") == DeadTime(500_000, 600_000)

@@ -83,7 +83,9 @@ def test_error_message(tmp_path, case):
     path.write_text(text)
     with pytest.raises(InputError) as info:
         read_table(str(path))
-    assert re.fullmatch(rf"{where(str(path), line, column)}: {pattern}", str(info.value)), str(info.value)
+    assert re.fullmatch(rf"{where(str(path), line, column)}: {pattern}", str(info.value)), str(
+        info.value
+    )
     assert "\n" not in str(info.value)
     assert (info.value.line, info.value.column) == (line, column)
 
@@ -91,7 +93,10 @@ def test_error_message(tmp_path, case):
 def test_missing_bridge_file(tmp_path):
     path = tmp_path / "t.steps"
     path.write_text('include "nope.bridge"\n0 AH=on\n')
-    with pytest.raises(InputError, match=rf"^{where(str(path), 1, 9)}: bridge file 'nope\.bridge' not found \(looked for .*nope\.bridge\)$"):
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 1, 9)}: bridge file 'nope\.bridge' not found \(looked for .*nope\.bridge\)$",
+    ):
         read_table(str(path))
 
 
@@ -99,14 +104,19 @@ def test_error_inside_an_included_file_names_that_file(tmp_path):
     (tmp_path / "drive.bridge").write_text("leg A high AH low AL\nleg B high AL low BL\n")
     path = tmp_path / "t.steps"
     path.write_text('include "drive.bridge"\n0 AH=on\n')
-    with pytest.raises(InputError, match=rf"^{where(str(tmp_path / 'drive.bridge'), 2, 12)}: channel 'AL'"):
+    with pytest.raises(
+        InputError, match=rf"^{where(str(tmp_path / 'drive.bridge'), 2, 12)}: channel 'AL'"
+    ):
         read_table(str(path))
 
 
 def test_not_utf8(tmp_path):
     path = tmp_path / "t.steps"
     path.write_bytes(b"leg A high AH low AL\n0 AH=\xff\n")
-    with pytest.raises(InputError, match=rf"^{where(str(path), 2, None)}: is not UTF-8 text \(byte 0xff\); expected a bridge description or table$"):
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 2, None)}: is not UTF-8 text \(byte 0xff\); expected a bridge description or table$",
+    ):
         read_table(str(path))
 
 
@@ -118,28 +128,40 @@ def test_missing_table(tmp_path):
 def test_steps_in_a_bridge_description(tmp_path):
     path = tmp_path / "x.bridge"
     path.write_text(LEGS + "0 AH=on\n")
-    with pytest.raises(InputError, match=rf"^{where(str(path), 3, 1)}: a bridge description holds no steps; put steps in a table \(\.steps\) that includes this file$"):
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 3, 1)}: a bridge description holds no steps; put steps in a table \(\.steps\) that includes this file$",
+    ):
         load_bridge(str(path))
 
 
 def test_bridge_without_legs(tmp_path):
     path = tmp_path / "x.bridge"
     path.write_text("dead-time 1us\n")
-    with pytest.raises(InputError, match=rf"^{re.escape(str(path))}: no legs: expected a line such as 'leg A high AH low AL'$"):
+    with pytest.raises(
+        InputError,
+        match=rf"^{re.escape(str(path))}: no legs: expected a line such as 'leg A high AH low AL'$",
+    ):
         load_bridge(str(path))
 
 
 def test_empty_bridge(tmp_path):
     path = tmp_path / "x.bridge"
     path.write_text("\n\n")
-    with pytest.raises(InputError, match=rf"^{where(str(path), 1, None)}: empty file, expected a bridge description: leg lines$"):
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 1, None)}: empty file, expected a bridge description: leg lines$",
+    ):
         load_bridge(str(path))
 
 
 def test_repeat_too_large(tmp_path):
     path = tmp_path / "t.steps"
     path.write_text(LEGS + "0 AH=on\nrepeat 100000000 every 1us {\n0 AH=off\n+1ns AH=on\n}\n")
-    with pytest.raises(InputError, match=rf"^{where(str(path), 4, 1)}: this repeat expands the table to 200,000,001 switch changes, more than the 50,000,000 a table may hold$"):
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 4, 1)}: this repeat expands the table to 200,000,001 switch changes, more than the 50,000,000 a table may hold$",
+    ):
         read_table(str(path))
 
 

@@ -43,7 +43,9 @@ def test_relative_times_count_from_the_previous_step(tmp_path):
 
 
 def test_units_match_parse_duration(tmp_path):
-    tr = read_table(table(tmp_path, "0 AH=off\n1.5e3ns AH=on\n+2 us AH=off\n+40ps AH=on\n1ms AH=off\n"))
+    tr = read_table(
+        table(tmp_path, "0 AH=off\n1.5e3ns AH=on\n+2 us AH=off\n+40ps AH=on\n1ms AH=off\n")
+    )
     assert edges(tr, "AH")[1] == [
         (1_500_000, 1, 3),
         (3_500_000, 0, 4),
@@ -61,7 +63,9 @@ def test_pin_levels_and_switch_states_with_active_low(tmp_path):
 
 def test_mode_steps_turn_on_the_fewest_switches(tmp_path):
     modes = BRIDGE + "mode forward = A.high and B.low\nmode coast = not (AH or AL or BH or BL)\n"
-    tr = read_table(table(tmp_path, "0 mode coast\n1us mode forward\n2us mode coast BL=on\n", modes))
+    tr = read_table(
+        table(tmp_path, "0 mode coast\n1us mode forward\n2us mode coast BL=on\n", modes)
+    )
     assert edges(tr, "AH") == (0, [(1_000_000, 1, 3), (2_000_000, 0, 4)])
     assert edges(tr, "BL") == (0, [(1_000_000, 1, 3)])  # kept on by the setting after the mode
     assert edges(tr, "AL") == (0, []) and edges(tr, "BH") == (0, [])
@@ -71,15 +75,25 @@ def test_repeat_every_tiles_the_pass(tmp_path):
     steps = "0 AL=on\n+10us\nrepeat 3 every 50us {\n  0 AL=off\n  +1us AH=on\n  30us AH=off\n  +1us AL=on\n}\n"
     tr = read_table(table(tmp_path, steps))
     base = 10_000_000
-    ah = [(base + k * 50_000_000 + t, v, ln) for k in range(3) for t, v, ln in ((1_000_000, 1, 6), (30_000_000, 0, 7))]
+    ah = [
+        (base + k * 50_000_000 + t, v, ln)
+        for k in range(3)
+        for t, v, ln in ((1_000_000, 1, 6), (30_000_000, 0, 7))
+    ]
     assert edges(tr, "AH") == (0, ah)
-    al = [(base + k * 50_000_000 + t, v, ln) for k in range(3) for t, v, ln in ((0, 0, 5), (31_000_000, 1, 8))]
+    al = [
+        (base + k * 50_000_000 + t, v, ln)
+        for k in range(3)
+        for t, v, ln in ((0, 0, 5), (31_000_000, 1, 8))
+    ]
     assert edges(tr, "AL") == (1, al)
     assert tr.end_ps == base + 150_000_000  # time after a block with a period: N periods on
 
 
 def test_repeat_without_period_chains_passes(tmp_path):
-    tr = read_table(table(tmp_path, "0 AH=off\nrepeat 2 {\n+1us AH=on\n+2us AH=off\n}\n+5us AH=on\n"))
+    tr = read_table(
+        table(tmp_path, "0 AH=off\nrepeat 2 {\n+1us AH=on\n+2us AH=off\n}\n+5us AH=on\n")
+    )
     assert edges(tr, "AH")[1] == [
         (1_000_000, 1, 4),
         (3_000_000, 0, 5),
@@ -110,7 +124,9 @@ def test_end_sets_the_window(tmp_path):
 
 
 def test_comments_blank_lines_and_crlf(tmp_path):
-    path = table(tmp_path, "# start\r\n\r\n0 AH=off   # all off\r\n   # indented comment\r\n+1us AH=on\r\n")
+    path = table(
+        tmp_path, "# start\r\n\r\n0 AH=off   # all off\r\n   # indented comment\r\n+1us AH=on\r\n"
+    )
     assert edges(read_table(path), "AH") == (0, [(1_000_000, 1, 6)])
 
 

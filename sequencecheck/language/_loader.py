@@ -43,8 +43,7 @@ _STEP_KINDS = frozenset({"step", "repeat", "close", "end"})
 #: Words that start a statement (grammar/bridge.lark). The lexer would read ``leggy``
 #: as ``leg`` followed by ``gy``, so a line's first word is checked against these.
 KEYWORDS = frozenset(
-    "include leg active-low dead-time min-pulse min-margin reversal-dwell mode allow forbid "
-    "dwell scheme timing bootstrap repeat end".split()
+    ["include", "leg", "active-low", "dead-time", "min-pulse", "min-margin", "reversal-dwell", "mode", "allow", "forbid", "dwell", "scheme", "timing", "bootstrap", "repeat", "end"]
 )
 _FIRST_WORD = re.compile(r"[A-Za-z_][\w-]*")
 _TIMING_FIELDS = {
