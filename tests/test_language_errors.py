@@ -172,3 +172,27 @@ def test_every_keyword_starts_a_statement():
     text = grammar_text()
     for word in KEYWORDS:
         assert f'"{word}"' in text, word
+
+
+@pytest.mark.parametrize(
+    ("step", "column"),
+    [("1e9000000ps AH=on", 1), ("+5000000000000000000ps AH=on", 1)],
+)
+def test_time_beyond_range(tmp_path, step, column):
+    path = tmp_path / "t.steps"
+    path.write_text(LEGS + "0 AH=off\n" + step + "\n")
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 4, column)}: '.*' is beyond the longest time a table may span \(about 53 days\)$",
+    ):
+        read_table(str(path))
+
+
+def test_repeat_beyond_range(tmp_path):
+    path = tmp_path / "t.steps"
+    path.write_text(LEGS + "0 AH=off\nrepeat 40000000000 every 1ms {\n0 AH=on\n}\n")
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 4, 1)}: this repeat runs past the longest time a table may span \(about 53 days\)$",
+    ):
+        read_table(str(path))

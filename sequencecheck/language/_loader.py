@@ -35,7 +35,7 @@ from ..units import format_time
 from ._diagnose import syntax_error
 from ._modes import Switch, resolve, single_state
 from ._timeline import MAX_CHANGES, Frame, channels_from_changes
-from ._values import duration_ps, quantity, time_ps
+from ._values import MAX_PS, check_range, duration_ps, quantity, time_ps
 
 __all__ = ["Loaded", "load"]
 
@@ -43,7 +43,24 @@ _STEP_KINDS = frozenset({"step", "repeat", "close", "end"})
 #: Words that start a statement (grammar/bridge.lark). The lexer would read ``leggy``
 #: as ``leg`` followed by ``gy``, so a line's first word is checked against these.
 KEYWORDS = frozenset(
-    ["include", "leg", "active-low", "dead-time", "min-pulse", "min-margin", "reversal-dwell", "mode", "allow", "forbid", "dwell", "scheme", "timing", "bootstrap", "repeat", "end"]
+    [
+        "include",
+        "leg",
+        "active-low",
+        "dead-time",
+        "min-pulse",
+        "min-margin",
+        "reversal-dwell",
+        "mode",
+        "allow",
+        "forbid",
+        "dwell",
+        "scheme",
+        "timing",
+        "bootstrap",
+        "repeat",
+        "end",
+    ]
 )
 _FIRST_WORD = re.compile(r"[A-Za-z_][\w-]*")
 _TIMING_FIELDS = {
@@ -62,6 +79,7 @@ _SUPPLY_FIELDS = {
     "min-vgs": ("min_vgs_v", "V", True),
     "resistance": ("resistance_ohm", "ohm", False),
 }
+_SEEN_LINES = 4096  # distinct lines remembered per file
 _PARSER: Any = None
 _PARSER_LOCK = threading.Lock()
 
@@ -179,6 +197,9 @@ class _Loader:
             "close": self.on_close,
             "end": self.on_end,
         }
+        # A line's statement depends on its text alone (columns included; token.line is
+        # always 1 in a one-line parse and never used), so repeated lines parse once.
+        seen: dict[str, tuple[Any, ...]] = {}
         for number, raw in enumerate(text.splitlines(), start=1):
             stripped = raw.lstrip()
             if not stripped or stripped[0] == "#":
@@ -192,12 +213,16 @@ class _Loader:
                     "+750ns) or a statement such as leg, mode, dead-time, allow, repeat, include",
                     column=self.column,
                 )
-            try:
-                statement = parse(raw)
-            except UnexpectedInput as e:
-                raise syntax_error(e, raw, self.path, number, _parser()) from None
-            except VisitError as e:  # a callback raised: surface the original error
-                raise e.orig_exc from None
+            statement = seen.get(raw)
+            if statement is None:
+                try:
+                    statement = parse(raw)
+                except UnexpectedInput as e:
+                    raise syntax_error(e, raw, self.path, number, _parser()) from None
+                except VisitError as e:  # a callback raised: surface the original error
+                    raise e.orig_exc from None
+                if len(seen) < _SEEN_LINES:
+                    seen[raw] = statement
             kind = statement[0]
             if kind in _STEP_KINDS:
                 if not self.steps_allowed:
@@ -467,6 +492,7 @@ class _Loader:
         frame = self.frames[-1]
         relative, ps = time_ps(str(time_token), self.where(time_token))
         t = frame.now + ps if relative else ps
+        check_range(t, str(time_token), self.where(time_token))
         if t < frame.now:
             inside = (
                 " (times in a repeat block count from the start of each pass)"
@@ -516,6 +542,12 @@ class _Loader:
             self.line = frame.line
             raise self.error("this repeat block holds no steps", column=frame.column)
         parent = self.frames[-1]
+        if frame.opened_at + frame.count * frame.pass_length() > MAX_PS:
+            self.line = frame.line
+            raise self.error(
+                "this repeat runs past the longest time a table may span (about 53 days)",
+                column=frame.column,
+            )
         total = frame.size * frame.count + parent.size
         if total > MAX_CHANGES:
             self.line = frame.line
@@ -534,6 +566,7 @@ class _Loader:
         frame = self.frames[0]
         relative, ps = time_ps(str(time_token), self.where(time_token))
         t = frame.now + ps if relative else ps
+        check_range(t, str(time_token), self.where(time_token))
         if t < frame.now:
             raise self.error(
                 f"end at {format_time(t)} is before the last step at {format_time(frame.now)}",

@@ -12,7 +12,10 @@ from decimal import Decimal
 from ..errors import InputError, UsageError
 from ..units import PS_PER_UNIT, parse_duration
 
-__all__ = ["QUANTITY_UNITS", "Where", "duration_ps", "quantity", "time_ps"]
+__all__ = ["MAX_PS", "QUANTITY_UNITS", "Where", "check_range", "duration_ps", "quantity", "time_ps"]
+
+#: Latest time a table may reach (int64 picoseconds, with room for sums): about 53 days.
+MAX_PS = 2**62
 
 Where = tuple[str, int, int]  # path, line, column
 
@@ -30,7 +33,7 @@ def time_ps(text: str, where: Where) -> tuple[bool, int]:
         raise InputError(f"expected a time, found {text!r}", path=where[0], line=where[1])
     plus, number, unit = m.groups()
     if number.isdigit() and unit in PS_PER_UNIT and PS_PER_UNIT[unit]:
-        ps = int(number) * PS_PER_UNIT[unit]
+        ps = check_range(int(number) * PS_PER_UNIT[unit], text, where)
     else:
         ps = duration_ps(number + unit, where)
     if len(_CACHE) < 100_000:
@@ -40,11 +43,27 @@ def time_ps(text: str, where: Where) -> tuple[bool, int]:
 
 def duration_ps(text: str, where: Where, what: str = "duration") -> int:
     """A DURATION token to picoseconds; finer than 1 ps is an InputError at ``where``."""
+    path, line, column = where
     try:
-        return parse_duration(text, what=what)
+        ps = parse_duration(text, what=what)
     except UsageError as e:
-        path, line, column = where
         raise InputError(str(e), path=path, line=line, column=column) from None
+    except ArithmeticError:  # an exponent beyond any decimal
+        ps = MAX_PS + 1
+    return check_range(ps, text, where)
+
+
+def check_range(ps: int, text: str, where: Where) -> int:
+    """``ps`` itself, or an InputError if it lies beyond MAX_PS."""
+    if ps > MAX_PS:
+        path, line, column = where
+        raise InputError(
+            f"{text!r} is beyond the longest time a table may span (about 53 days)",
+            path=path,
+            line=line,
+            column=column,
+        )
+    return ps
 
 
 #: Unit symbol of each kind of quantity the language accepts.
@@ -62,6 +81,10 @@ def quantity(text: str, unit: str, what: str, where: Where) -> float:
         raise InputError(f"{what}: expected a value with a unit, found {text!r}",
                          path=path, line=line, column=column)  # fmt: skip
     number, prefix, found = m.groups()
+    try:
+        value = float(Decimal(number) * _PREFIX[prefix])
+    except ArithmeticError:
+        value = float("inf")
     found = "ohm" if found == "Ω" else found
     if found != unit:
         example = {"F": "100nF", "C": "54nC", "A": "115uA", "V": "12V", "ohm": "10ohm"}[unit]
@@ -71,4 +94,6 @@ def quantity(text: str, unit: str, what: str, where: Where) -> float:
             line=line,
             column=column,
         )
-    return float(Decimal(number) * _PREFIX[prefix])
+    if not value < 1e30:
+        raise InputError(f"{what}: {text!r} is out of range", path=path, line=line, column=column)
+    return value
