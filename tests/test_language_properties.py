@@ -279,12 +279,52 @@ def _fuzz_lines():
     return from_lark(Lark(grammar_text(), parser="lalr", start="line"), start="line")
 
 
+_WORDS = [
+    "0",
+    "+1us",
+    "5e3ns",
+    "µs",
+    "AH=on",
+    "AL=off",
+    "BL=1",
+    "mode",
+    "forward",
+    "brake",
+    "repeat",
+    "2",
+    "every",
+    "{",
+    "}",
+    "end",
+    "leg",
+    "A",
+    "high",
+    "low",
+    "dead-time",
+    "500ns",
+    "A.high",
+    "and",
+    "or",
+    "not",
+    "(",
+    ")",
+    "=",
+    "allow",
+    "->",
+    "*",
+    "after",
+    "#",
+    "include",
+]
+_word_lines = st.lists(st.sampled_from(_WORDS), max_size=8).map(" ".join)
+
+
 @settings(
     max_examples=60,
     deadline=None,
     suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow],
 )
-@given(st.lists(st.one_of(_fuzz_lines(), st.text(max_size=30)), max_size=8))
+@given(st.lists(st.one_of(_fuzz_lines(), _word_lines, st.text(max_size=30)), max_size=8))
 def test_any_text_loads_or_raises_input_error(tmp_path, lines):
     (tmp_path / "drive.bridge").write_text(BRIDGE)
     path = tmp_path / "t.steps"
