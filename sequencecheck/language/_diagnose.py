@@ -24,12 +24,13 @@ TERMINAL_WORDS = {
     "COUNT": "a whole number of passes",
     "PATH": 'a file name in double quotes, such as "drive.bridge"',
     "QUANTITY": "a value with its unit, such as 100nF, 54nC, 115uA, 12V or 10ohm",
-    "DIRECTION": "high-to-low or low-to-high",
+    "DIRECTION": "a direction (high-to-low or low-to-high)",
     "STATE": "a mode name or *",
     "VERDICT": "allow or forbid",
     "SCHEME": "sign-magnitude or locked-anti-phase",
-    "TIMING_KEY": "turn-on-delay, turn-off-delay, rise or fall",
-    "SUPPLY_KEY": "capacitance, gate-charge, leakage, supply, diode-drop, min-vgs or resistance",
+    "TIMING_KEY": "a timing (driver-delay, turn-on-delay, turn-off-delay, rise or fall)",
+    "SUPPLY_KEY": "a bootstrap value (capacitance, gate-charge, leakage, supply, diode-drop, "
+    "min-vgs or resistance)",
     "$END": "the end of the line",
 }
 _STATEMENT = (
@@ -39,6 +40,7 @@ _STATEMENT = (
 _BARE_NUMBER = re.compile(r"^\+?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$")
 _NUMBER_UNIT = re.compile(r"^\+?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?([A-Za-zµμ]+)$")
 _BAD_SETTING = re.compile(r"^([A-Za-z_][\w.]*)=(\S*)")
+_LOOSE_SETTING = re.compile(r"^([A-Za-z_][\w.]*)(=\S*)?$")
 
 
 def _word_at(text: str, column: int) -> str:
@@ -47,18 +49,24 @@ def _word_at(text: str, column: int) -> str:
     return m.group(0) if m else ""
 
 
+def _pattern(name: str, parser: Any) -> str:
+    try:
+        return str(parser.get_terminal(name).pattern.value)
+    except (KeyError, AttributeError):  # pragma: no cover - every terminal has a pattern
+        return name
+
+
 def _describe(names: set[str], parser: Any) -> str:
     if {"TIME", "LEG"} <= names:
         return _STATEMENT
+    if "TIMING_KEY" in names:  # driver-delay is already named in the timing description
+        names = {n for n in names if _pattern(n, parser) != "driver-delay"}
     words = []
     for name in sorted(names, key=lambda n: (n not in TERMINAL_WORDS, n)):
         if name in TERMINAL_WORDS:
             words.append(TERMINAL_WORDS[name])
             continue
-        try:
-            words.append(repr(parser.get_terminal(name).pattern.value))
-        except (KeyError, AttributeError):  # pragma: no cover - every terminal has a pattern
-            words.append(name)
+        words.append(repr(_pattern(name, parser)))
     if len(words) == 1:
         return words[0]
     return ", ".join(words[:-1]) + " or " + words[-1]
@@ -70,6 +78,12 @@ def _hint(found: str, names: set[str], text: str, column: int) -> str | None:
         return f"a time needs a unit (s, ms, us, ns, ps): write {found.lstrip('+')}us or similar, not {found}"
     if names & {"TIME", "DURATION"} and (m := _NUMBER_UNIT.match(found)):
         return f"unknown time unit {m.group(3)!r} in {found!r}; use s, ms, us, ns or ps"
+    step_line = text.lstrip()[:1].isdigit() or text.lstrip()[:1] in "+."
+    if names == {"$END"} and step_line and (m := _LOOSE_SETTING.match(found)) is not None:
+        return (
+            f"{found!r}: set a switch to on or off (or a pin level to 1 or 0), "
+            f"such as {m.group(1)}=on"
+        )
     if "SETTINGS" in names:
         if (m := _BAD_SETTING.match(found)) is not None:
             return f"{found!r}: set a switch to on or off (or a pin level to 1 or 0), not {m.group(2)!r}"
