@@ -100,3 +100,15 @@ def test_bridge_description_is_not_an_input(tmp_path):
     r = run_cli("check", str(SAMPLES / "cart.bridge"))
     assert r.returncode == 2
     assert "is a bridge description, not an input to check" in r.stderr
+
+
+def test_empty_and_non_utf8_tables_exit_2_with_one_line(tmp_path):
+    (tmp_path / "empty.steps").write_text("")
+    (tmp_path / "latin.steps").write_bytes(b"# caf\xe9\nleg A high AH low AL\n")
+    for name, text in (
+        ("empty.steps", "empty.steps:1: empty file, expected a table: an include line and steps"),
+        ("latin.steps", "latin.steps:1: is not UTF-8 text (byte 0xe9)"),
+    ):
+        r = run_cli("check", str(tmp_path / name))
+        assert r.returncode == 2 and r.stderr.count("\n") == 1, r.stderr
+        assert text in r.stderr and "Traceback" not in r.stderr

@@ -11,7 +11,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
-from hypothesis import HealthCheck, assume, given, settings
+from hypothesis import HealthCheck, assume, event, example, given, settings
 from hypothesis import strategies as st
 
 import sequencecheck as sc
@@ -239,6 +239,20 @@ def key(f: sc.Finding) -> tuple:
     max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture]
 )
 @given(tables, st.integers(0, 2_000_000))
+@example(  # a reversal with too little dead time and an overlap, as in the demo fault
+    (
+        [
+            Step(0, True, "brake", ()),
+            Step(10_000_000, False, None, (("BL", "off"),)),
+            Step(150_000, False, None, (("BH", "on"),)),
+            Step(20_000_000, False, None, (("AL", "1"),)),
+            Step(1_000_000, False, None, (("BH", "off"), ("AH", "on"))),
+        ],
+        set(),
+        None,
+    ),
+    600_000,
+)
 def test_table_and_csv_of_one_sequence_give_the_same_findings(tmp_path, table, dead_ps):
     top, active_low, _ = table
     events: list = []
@@ -262,6 +276,7 @@ def test_table_and_csv_of_one_sequence_give_the_same_findings(tmp_path, table, d
     assume(from_csv.kind == "csv-changes")  # evenly spaced rows would read as samples
     from_table = sc.check_file(str(table_path), None, policy)
     assert [key(f) for f in from_table.findings] == [key(f) for f in from_csv.findings]
+    event(f"findings: {sorted({f.rule for f in from_table.findings})}")
     step_lines = {ln for _, _, _, ln in events}
     for f in from_table.findings:
         assert {s.line for s in f.sources} <= step_lines  # edges at the window's ends have none
