@@ -150,3 +150,10 @@ def test_samples_read(sample):
     root = Path(__file__).resolve().parent.parent / "samples"
     tr = read_table(str(root / sample))
     assert tr.kind == "table" and tr.edge_count > 300
+
+
+def test_hash_inside_a_quoted_path_is_not_a_comment(tmp_path):
+    (tmp_path / "drive#2.bridge").write_text(BRIDGE)
+    path = tmp_path / "t.steps"
+    path.write_text('include "drive#2.bridge"   # the second drive\n0 AH=off\n1us AH=on  # go\n')
+    assert edges(read_table(str(path)), "AH") == (0, [(1_000_000, 1, 3)])

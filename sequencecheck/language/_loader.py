@@ -124,6 +124,8 @@ class _Loader(BridgeStatements, StepStatements):
                     "+750ns) or a statement such as leg, mode, dead-time, allow, repeat, include",
                     column=self.column,
                 )
+            if "#" in raw and '"' not in raw:  # a trailing comment: the lexer need not see it
+                raw = raw[: raw.index("#")]
             statement = seen.get(raw)
             if statement is None:
                 try:
