@@ -206,3 +206,25 @@ def test_repeat_beyond_range(tmp_path):
         match=rf"^{where(str(path), 4, 1)}: this repeat runs past the longest time a table may span \(about 53 days\)$",
     ):
         read_table(str(path))
+
+
+def test_mode_nested_too_deeply(tmp_path):
+    path = tmp_path / "t.steps"
+    path.write_text(LEGS + "mode m = " + "(A.high and " * 150 + "A.high" + ")" * 150 + "\n")
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 3, 6)}: mode m: the expression nests deeper than 100 levels$",
+    ):
+        read_table(str(path))
+
+
+def test_modes_of_modes_too_deep_to_evaluate(tmp_path):
+    lines = [LEGS + "mode m0 = " + "not " * 90 + "A.high"]
+    lines += [f"mode m{i} = " + "not " * 90 + f"m{i - 1}" for i in range(1, 40)]
+    path = tmp_path / "t.steps"
+    path.write_text("\n".join(lines) + "\n0 mode m39\n")
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 43, 8)}: mode m39 \(line 42\) cannot be a step: it nests too deeply to evaluate; set the switches explicitly$",
+    ):
+        read_table(str(path))

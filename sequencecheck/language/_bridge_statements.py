@@ -102,7 +102,7 @@ class BridgeStatements(LoaderState):
             raise self.error(f"mode {str(name)!r} has the name of a channel; choose another", name)
 
         def fail(message: str, token: Any) -> InputError:
-            return self.error(f"mode {name}: {message}", token)
+            return self.error(f"mode {name}: {message}", token or name)
 
         exprs = {n: m.expr for n, m in self.modes.items()}
         expr: ModeExpr = resolve(node, self.legs, self.switch_of, exprs, fail)

@@ -12,7 +12,10 @@ from typing import Any
 
 from ..model import All, Any_, Const, Leg, ModeExpr, Not, Side, SwitchOn
 
-__all__ = ["Switch", "holds", "resolve", "single_state"]
+__all__ = ["MAX_DEPTH", "Switch", "holds", "resolve", "single_state"]
+
+#: Deepest nesting of not/and/or a mode expression may have.
+MAX_DEPTH = 100
 
 Switch = tuple[str, Side]  # (leg name, side)
 
@@ -23,6 +26,7 @@ def resolve(
     switch_of: Mapping[str, Switch],
     modes: Mapping[str, ModeExpr],
     fail: Callable[[str, Any], Exception],
+    depth: int = 0,
 ) -> ModeExpr:
     """Turn a parsed expression into model records.
 
@@ -31,6 +35,8 @@ def resolve(
     builds the error raised for a name that is neither.
     """
     kind = node[0]
+    if depth > MAX_DEPTH:
+        raise fail(f"the expression nests deeper than {MAX_DEPTH} levels", None)
     if kind == "switch":
         token = node[1]
         leg, _, side = str(token).partition(".")
@@ -55,8 +61,8 @@ def resolve(
     if kind == "const":
         return Const(bool(node[1]))
     if kind == "not":
-        return Not(resolve(node[1], legs, switch_of, modes, fail))
-    operands = tuple(resolve(op, legs, switch_of, modes, fail) for op in node[1])
+        return Not(resolve(node[1], legs, switch_of, modes, fail, depth + 1))
+    operands = tuple(resolve(op, legs, switch_of, modes, fail, depth + 1) for op in node[1])
     return All(operands) if kind == "and" else Any_(operands)
 
 

@@ -77,7 +77,10 @@ class StepStatements(LoaderState):
         switches = tuple(
             (leg.name, side) for leg in self.legs.values() for side in (Side.HIGH, Side.LOW)
         )
-        state = single_state(mode.expr, switches)
+        try:
+            state = single_state(mode.expr, switches)
+        except RecursionError:  # modes built from modes, nested beyond Python's stack
+            state = "it nests too deeply to evaluate"
         if isinstance(state, str):
             raise self.error(
                 f"mode {name} (line {self.defined_at['mode ' + name]}) cannot be a step: {state}; "
