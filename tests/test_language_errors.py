@@ -228,3 +228,14 @@ def test_modes_of_modes_too_deep_to_evaluate(tmp_path):
         match=rf"^{where(str(path), 43, 8)}: mode m39 \(line 42\) cannot be a step: it nests too deeply to evaluate; set the switches explicitly$",
     ):
         read_table(str(path))
+
+
+def test_mode_search_has_a_limit(tmp_path):
+    legs = "".join(f"leg L{i} high H{i} low W{i}\n" for i in range(9))  # 18 switches
+    path = tmp_path / "t.steps"
+    path.write_text(legs + "mode never = L0.high and not L0.high\n0 mode never\n")
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), 11, 8)}: mode never \(line 10\) cannot be a step: its state is not found among the first 65,536 switch states; set the switches explicitly$",
+    ):
+        read_table(str(path))

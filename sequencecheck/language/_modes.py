@@ -12,10 +12,12 @@ from typing import Any
 
 from ..model import All, Any_, Const, Leg, ModeExpr, Not, Side, SwitchOn
 
-__all__ = ["MAX_DEPTH", "Switch", "holds", "resolve", "single_state"]
+__all__ = ["MAX_DEPTH", "SEARCH_LIMIT", "Switch", "holds", "resolve", "single_state"]
 
 #: Deepest nesting of not/and/or a mode expression may have.
 MAX_DEPTH = 100
+#: Most switch states tried when finding the one a mode step sets (2**16: 8 legs).
+SEARCH_LIMIT = 65_536
 
 Switch = tuple[str, Side]  # (leg name, side)
 
@@ -85,8 +87,15 @@ def single_state(expr: ModeExpr, switches: tuple[Switch, ...]) -> frozenset[Swit
     Returns the set of switches on, or a sentence saying why there is no single
     such state (never true, or several equally small states).
     """
+    tried = 0
     for k in range(len(switches) + 1):
-        found = [frozenset(c) for c in combinations(switches, k) if holds(expr, frozenset(c))]
+        found = []
+        for c in combinations(switches, k):
+            tried += 1
+            if tried > SEARCH_LIMIT:
+                return f"its state is not found among the first {SEARCH_LIMIT:,} switch states"
+            if holds(expr, frozenset(c)):
+                found.append(frozenset(c))
         if len(found) == 1:
             return found[0]
         if found:
