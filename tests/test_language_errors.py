@@ -78,7 +78,8 @@ CASES = {
     "no legs at all": ("# nothing\n0 AH=on\n", 2, 3, r"unknown channel 'AH' \(channels: none: include a bridge or define legs first\)"),
     "table includes itself": ('include "t.steps"\n', 1, 9, r"include 't\.steps' includes itself \(directly or through another file\)"),
     "empty file": ("", 1, None, r"empty file, expected a table: an include line and steps"),
-    "no steps": (LEGS, None, None, r"no steps: a table needs at least one step such as '0 AH=off AL=on'"),
+    "no steps": (LEGS, None, None, r"no steps: a table needs at least one step that sets switches, such as '0 AH=off AL=on'"),
+    "no switch set": (LEGS + "0\n+1us\n", None, None, r"no switch is set: a table needs at least one step that sets switches, such as '0 AH=off AL=on'"),
 }  # fmt: skip
 
 

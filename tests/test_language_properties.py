@@ -60,7 +60,7 @@ settings_st = st.lists(
 @st.composite
 def steps(draw) -> Step:
     mode = draw(st.one_of(st.none(), st.sampled_from(sorted(MODES))))
-    sets = draw(settings_st) if mode is None else draw(st.one_of(st.just(()), settings_st))
+    sets = draw(st.one_of(st.just(()), settings_st))  # no mode, no settings: time passes
     return Step(draw(durations()), draw(st.booleans()), mode, sets)
 
 
@@ -202,6 +202,7 @@ def test_random_tables_round_trip_to_their_edges(tmp_path, table):
     events: list = []
     text = render(top, active_low, None)  # sets each step's line
     reached = expand(top, 0, active_low, events)
+    assume(events)  # a table of time-only steps sets nothing (an error of its own)
     end_ps = None if extra_end is None else max(reached, max(t for t, *_ in events)) + extra_end
     text = render(top, active_low, end_ps)
     trace = read_table(str(write(tmp_path, text, active_low)))
@@ -258,6 +259,7 @@ def test_table_and_csv_of_one_sequence_give_the_same_findings(tmp_path, table, d
     events: list = []
     render(top, active_low, None)
     reached = expand(top, 0, active_low, events)
+    assume(events)
     end_ps = max(reached, max(t for t, *_ in events)) + 1_000_000  # rows stay unevenly spaced
     text = render(top, active_low, end_ps)
     table_path = write(tmp_path, text, active_low)

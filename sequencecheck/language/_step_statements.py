@@ -191,8 +191,11 @@ class StepStatements(LoaderState):
         top = self.frames[0]
         t, c, v, ln = top.arrays()
         if t.size == 0:
+            what = "no switch is set" if top.steps else "no steps"
             raise InputError(
-                "no steps: a table needs at least one step such as '0 AH=off AL=on'", path=self.path
+                f"{what}: a table needs at least one step that sets switches, such as "
+                "'0 AH=off AL=on'",
+                path=self.path,
             )
         start = int(t[0])
         end = self.end_ps if self.end_ps is not None else max(top.now, int(t[-1]))
