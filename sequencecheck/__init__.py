@@ -19,6 +19,9 @@ from .errors import InputError, SequenceCheckError, UsageError
 # findings
 from .findings import Certainty, Finding, InputReport, LegStats, Report, Severity, WorstMargin
 
+# language
+from .language import load_bridge, read_table
+
 # model
 from .model import Bridge, Channel, DeadTime, Direction, Leg, Level, Policy, Source, Trace
 from .model._physics import BootstrapSupply, SwitchTiming
@@ -64,8 +67,10 @@ __all__ = [
     "check_file",
     "check_trace",
     "format_time",
+    "load_bridge",
     "parse_duration",
     "read",
     "read_csv",
+    "read_table",
     "run",
 ]

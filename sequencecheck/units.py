@@ -9,7 +9,7 @@
 from __future__ import annotations
 
 import re
-from decimal import Decimal, InvalidOperation
+from decimal import Decimal
 
 from .errors import UsageError
 
@@ -65,9 +65,10 @@ def parse_duration(text: str, *, what: str = "duration", allow_negative: bool = 
         )
     try:
         value = Decimal(number) * _UNITS[unit]
-    except InvalidOperation:  # pragma: no cover - the regex admits only numbers
-        raise UsageError(f"{what} is not a number: {text!r}") from None
-    if value != value.to_integral_value():
+        exact = value == value.to_integral_value()
+    except ArithmeticError:  # Decimal overflow on absurd exponents
+        raise UsageError(f"{what} {text!r} is out of range") from None
+    if not exact:
         raise UsageError(f"{what} {text!r} is finer than the tool's 1 ps resolution")
     ps = int(value)
     if ps < 0 and not allow_negative:

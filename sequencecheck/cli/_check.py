@@ -11,6 +11,7 @@ from ..legs import parse_leg
 from ..model import Bridge, DeadTime, Policy
 from ..reporters import REPORTERS, render
 from ..units import parse_duration
+from ._bridge_file import add_bridge_argument, apply_bridge_file
 from ._modes_options import add_mode_options, apply_mode_options, mode_settings, states_view
 from ._output import check_output_path, write_output
 from ._physics_flags import add_physics_arguments, apply_physics_arguments, physics_settings
@@ -23,6 +24,8 @@ EXAMPLES = """examples:
   sequencecheck check capture.csv --dead-time 1us --active-low AL,BL --format json
   sequencecheck check samples.csv --time-column sample --sample-rate 100e6 --dead-time 200ns
   sequencecheck check capture.csv --min-pulse 100ns --reversal-dwell 2ms --states
+  sequencecheck check reversal.steps            (a table brings its bridge and limits)
+  sequencecheck check capture.csv --bridge drive.bridge --dead-time 1us
 
 exit status: 0 no violation, 1 at least one violation, 2 usage or input error.
 """
@@ -73,6 +76,8 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     add_mode_options(p)
 
     add_physics_arguments(p)
+
+    add_bridge_argument(p)
     p.set_defaults(func=run_check)
     return p
 
@@ -112,6 +117,8 @@ def run_check(args: argparse.Namespace) -> int:
     policy = apply_mode_options(args, policy)
 
     bridge, policy = apply_physics_arguments(args, bridge, policy)
+
+    bridge, policy = apply_bridge_file(args, bridge, policy)
     read_options = {
         "time_column": args.time_column,
         "time_unit": args.time_unit,
