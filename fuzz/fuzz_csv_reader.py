@@ -2,8 +2,10 @@
 
 Every input is written to a scratch file and read with ``read_csv``; the first byte
 picks reader options (time unit, sample rate, named time column) so those paths are
-fuzzed too. Anything raised other than InputError/UsageError, and any warning, is a
-crash. The campaign keeps going after a crash: each distinct crash (exception type,
+fuzzed too. Anything raised other than InputError/UsageError is a crash, and so is
+any warning (it reaches the terminal as extra stderr lines), an InputError message of
+more than one line, and an InputError that names no line (every problem inside a
+regular file has one). The campaign keeps going after a crash: each distinct crash (exception type,
 message shape and the innermost frame of sequencecheck) is recorded once in
 ``--crash-dir`` with the input that caused it, so one run finds many kinds.
 
@@ -78,19 +80,23 @@ def test_one_input(data: bytes) -> None:
     flag, body = (data[0], data[1:]) if data else (0, b"")
     with open(_scratch, "wb") as f:
         f.write(body)
-    try:
-        with warnings.catch_warnings():
-            warnings.simplefilter("error")
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        try:
             read_csv(_scratch, **_options(flag))  # type: ignore[arg-type]
-        _stats["read"] += 1
-    except InputError as e:
-        _stats["input_errors"] += 1
-        if "\n" in str(e):
-            _record(AssertionError(f"multi-line error: {e!s}"), data)
-    except UsageError:
-        _stats["usage_errors"] += 1
-    except Exception as e:  # every other exception is a crash
-        _record(e, data)
+            _stats["read"] += 1
+        except InputError as e:
+            _stats["input_errors"] += 1
+            if "\n" in str(e):
+                _record(AssertionError(f"multi-line error: {e!s}"), data)
+            elif e.line is None:  # a regular file's error always has a line to name
+                _record(AssertionError(f"error naming no line: {e.message}"), data)
+        except UsageError:
+            _stats["usage_errors"] += 1
+        except Exception as e:  # every other exception is a crash
+            _record(e, data)
+    for w in caught:  # a warning reaches the user's terminal as extra stderr lines
+        _record(AssertionError(f"{w.category.__name__}: {w.message}"), data)
     global _last_summary
     if time.monotonic() - _last_summary > 5:
         _last_summary = time.monotonic()
