@@ -30,10 +30,15 @@ BLOCK = 4 << 20  # the CSV reader's read block; cases below cross it on purpose
 
 @dataclass(frozen=True)
 class Fails:
-    """Exit 2 with one line naming the file (and ``line``) and matching ``pattern``."""
+    """Exit 2 with one line naming the file (and ``line``) and matching ``pattern``.
+
+    ``usage=True``: a bad flag (UsageError): the line need not start with the path, and
+    the run stops before any report is printed.
+    """
 
     pattern: str
     line: int | None
+    usage: bool = False
 
 
 @dataclass(frozen=True)
@@ -335,6 +340,45 @@ CASES: list[Case] = [
         args=("--sample-rate", "100e6"),
         read_options={"sample_rate_hz": 100e6},
         known_bug="the row finder accepts the big integer, so the error names no line ('could not be read as CSV')",
+    ),
+    *[
+        Case(
+            f"--sample-rate {rate}",
+            b"sample,AH,AL\n0,0,1\n1,0,0\n3,1,0\n9,0,0\n",
+            Fails(r"--sample-rate", None, usage=True),
+            f"exit 2: --sample-rate {rate} {why}",
+            args=("--sample-rate", rate),
+            read_options={"sample_rate_hz": float(rate)},
+            known_bug=bug,
+        )
+        for rate, why, bug in [
+            ("nan", "is not a positive frequency", None),
+            ("0", "is not a positive frequency", None),
+            (
+                "3e12",
+                "gives a sample period under the 1 ps resolution",
+                "the period rounds to 0 ps: every sample lands on one instant and the run passes clean",
+            ),
+            (
+                "inf",
+                "gives a sample period under the 1 ps resolution",
+                "the period rounds to 0 ps: every sample lands on one instant and the run passes clean",
+            ),
+            (
+                "1e-300",
+                "gives a sample period beyond the picosecond range",
+                "round(1e12 / rate) raises OverflowError: a traceback",
+            ),
+        ]
+    ],
+    Case(
+        "channel names that pair into no leg",
+        b"time_ns,CH0,CH1\n0,0,1\n100,1,0\n",
+        Fails(
+            r"cannot tell the legs from channels CH0, CH1; name them with --leg", None, usage=True
+        ),
+        "exit 2: cannot tell the legs, name them with --leg (no report: the run stops)",
+        in_process=False,
     ),
     # --- values --------------------------------------------------------------------------
     *[

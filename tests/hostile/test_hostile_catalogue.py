@@ -18,7 +18,7 @@ import pytest
 from catalogue import CASES, Case, Fails, Reads, markdown_table
 from conftest import ROOT, run_cli
 
-from sequencecheck.errors import InputError
+from sequencecheck.errors import InputError, UsageError
 from sequencecheck.readers import read
 
 MAX_MESSAGE = 300  # characters after the "PATH:LINE: " prefix
@@ -57,7 +57,12 @@ def _cli(case: Case, path: Path) -> subprocess.CompletedProcess[str]:
 
 def _check_message(text: str, path: Path, expect: Fails) -> None:
     """The shared promises of an error message: place, wording, one printable line."""
-    prefix = f"{path}:{expect.line}: " if expect.line is not None else f"{path}: "
+    if expect.usage:
+        prefix = ""
+    elif expect.line is not None:
+        prefix = f"{path}:{expect.line}: "
+    else:
+        prefix = f"{path}: "
     assert text.startswith(prefix), f"expected the prefix {prefix!r}: {text[:300]!r}"
     assert re.search(expect.pattern, text), f"{expect.pattern!r} not in {text[:300]!r}"
     assert "\n" not in text and "\r" not in text, f"not one line: {text[:300]!r}"
@@ -78,6 +83,9 @@ def test_cli(case: Case, tmp_path: Path) -> None:
         assert r.stderr.startswith(head)
         message = r.stderr[len(head) : -1]
         _check_message(message, path, case.expect)
+        if case.expect.usage:
+            assert r.stdout == ""  # a bad flag stops the run before any report
+            return
         # no silent pass: the report itself says this input was not checked
         summary = json.loads(r.stdout)["summary"]
         assert summary["inputs_failed"] == 1
@@ -100,6 +108,11 @@ def test_cli(case: Case, tmp_path: Path) -> None:
 def test_read(case: Case, tmp_path: Path) -> None:
     _skip_as_root(case)
     path = case.make(tmp_path)
+    if isinstance(case.expect, Fails) and case.expect.usage:
+        with pytest.raises(UsageError) as usage:
+            read(str(path), **case.read_options)
+        _check_message(str(usage.value), path, case.expect)
+        return
     if isinstance(case.expect, Fails):
         with pytest.raises(InputError) as err:
             read(str(path), **case.read_options)
