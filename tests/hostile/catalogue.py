@@ -286,6 +286,29 @@ CASES: list[Case] = [
         known_bug="the float-to-int64 cast overflows: a RuntimeWarning on stderr and a wrong 'time goes backwards' message",
     ),
     Case(
+        "absolute (epoch) timestamps in seconds",
+        b"time_s,AH,AL\n1733000000.0000001,0,1\n1733000000.0000002,1,0\n1733000000.0000003,0,0\n",
+        Fails(r"(?i)time.*(range|too (large|big|late))", 2),
+        "exit 2 at the first row: time out of range (int64 picoseconds end after about 106 days)",
+        known_bug="the times overflow int64 picoseconds silently: every row collapses to one instant, all edges are lost and the run passes clean (a RuntimeWarning on stderr)",
+    ),
+    Case(
+        "seconds with a 100,000 s offset and picosecond digits",
+        b"time_s,AH,AL\n100000.000000000000,0,1\n100000.000000100003,0,0\n"
+        b"100000.000000300007,1,0\n100000.000001000011,0,0\n100000.000001200013,0,1\n",
+        Reads(
+            5,
+            _ab(
+                (0, [(10**17 + 300_007, 1), (10**17 + 1_000_011, 0)]),
+                (1, [(10**17 + 100_003, 0), (10**17 + 1_200_013, 1)]),
+            ),
+            10**17,
+            10**17 + 1_200_013,
+        ),
+        "read to the exact picosecond",
+        known_bug="times are parsed as float64 before scaling: at 1e5 s one float step is 14.6 ps, so edges move by up to 11 ps",
+    ),
+    Case(
         "decreasing timestamps",
         b"time_ns,AH,AL\n0,0,1\n100,0,0\n50,1,0\n",
         Fails(r"time goes backwards \(column 'time_ns'\); expected non-decreasing time", 4),

@@ -281,3 +281,16 @@ def test_output_to_a_device_file_writes_to_the_device(tmp_path: Path) -> None:
         pytest.skip(f"cannot make a device node here: {e}")
     run(_check_args(node))
     assert stat.S_ISCHR(node.stat().st_mode)
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason="--output naming one of the inputs replaces the capture with the report",
+)
+def test_output_never_overwrites_an_input(tmp_path: Path) -> None:
+    capture = tmp_path / "capture.csv"
+    original = (SAMPLES / "cart_faulty_changes.csv").read_bytes()
+    capture.write_bytes(original)
+    status = run(["check", str(capture), "--dead-time", "500ns", "--output", str(capture)])
+    assert capture.read_bytes() == original
+    assert status == 2
