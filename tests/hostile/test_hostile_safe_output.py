@@ -294,3 +294,83 @@ def test_output_never_overwrites_an_input(tmp_path: Path) -> None:
     status = run(["check", str(capture), "--dead-time", "500ns", "--output", str(capture)])
     assert capture.read_bytes() == original
     assert status == 2
+
+
+# --- every registered report format keeps hostile names as data --------------------------
+
+INJECT_HIGH = "<sc-injected a='1'>&amp;\"q\"</sc-injected> H"
+INJECT_LOW = "<sc-injected a='1'>&amp;\"q\"</sc-injected> L"
+
+
+def _strings(node: object) -> list[str]:
+    if isinstance(node, str):
+        return [node]
+    if isinstance(node, dict):
+        return [s for k, v in node.items() for s in (*_strings(k), *_strings(v))]
+    if isinstance(node, list):
+        return [s for v in node for s in _strings(v)]
+    return []
+
+
+def _markup_text_and_tags(text: str) -> tuple[list[str], set[str]]:
+    """Text and attribute values, and tag names, of an XML or HTML document."""
+    import xml.etree.ElementTree as ET
+    from html.parser import HTMLParser
+
+    try:
+        root = ET.fromstring(text)
+    except ET.ParseError:
+        found: list[str] = []
+        tags: set[str] = set()
+
+        class Collect(HTMLParser):
+            def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
+                tags.add(tag)
+                found.extend(v for _, v in attrs if v)
+
+            def handle_data(self, data: str) -> None:
+                found.append(data)
+
+        Collect(convert_charrefs=True).feed(text)
+        return found, tags
+    return (
+        [s for el in root.iter() for s in (el.text or "", el.tail or "", *el.attrib.values())],
+        {el.tag for el in root.iter()},
+    )
+
+
+@pytest.mark.parametrize("fmt", sorted(REPORTERS))
+def test_every_report_format_keeps_hostile_names_as_data(fmt: str, tmp_path: Path) -> None:
+    """Markup, quotes and entities in names stay text in every format, escaped as it needs."""
+    from sequencecheck.api import check
+    from sequencecheck.reporters import render
+
+    report = check([_odd_capture(tmp_path, INJECT_HIGH, INJECT_LOW)])
+    out = render(report, fmt)
+    text = out.decode("utf-8") if isinstance(out, bytes) else out
+    stripped = text.lstrip()
+    if fmt == "text":
+        assert INJECT_HIGH in text and INJECT_LOW in text
+    elif stripped.startswith(("{", "[")):
+        strings = _strings(json.loads(text))
+        assert any(INJECT_HIGH in s for s in strings) and any(INJECT_LOW in s for s in strings)
+    elif stripped.startswith("<"):
+        found, tags = _markup_text_and_tags(text)
+        assert "sc-injected" not in tags, f"{fmt}: a channel name became markup"
+        joined = "\n".join(found)
+        assert INJECT_HIGH in joined and INJECT_LOW in joined, f"{fmt}: name not kept as text"
+    else:
+        pytest.fail(f"teach this test how to read the {fmt!r} format")
+
+
+def test_the_markup_reader_tells_escaped_from_injected() -> None:
+    from html import escape
+
+    html_raw = f"<html><body><td>{INJECT_HIGH}</td></body></html>"
+    html_safe = f"<html><body><td>{escape(INJECT_HIGH)}</td></body></html>"
+    xml_safe = f'<testsuite name="{escape(INJECT_HIGH, quote=True)}"><c>{escape(INJECT_LOW)}</c></testsuite>'
+    assert "sc-injected" in _markup_text_and_tags(html_raw)[1]
+    found, tags = _markup_text_and_tags(html_safe)
+    assert "sc-injected" not in tags and INJECT_HIGH in "".join(found)
+    found, tags = _markup_text_and_tags(xml_safe)
+    assert "sc-injected" not in tags and {INJECT_HIGH, INJECT_LOW} <= set(found)
