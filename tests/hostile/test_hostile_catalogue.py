@@ -29,7 +29,7 @@ def _params(cases: list[Case]) -> list[object]:
     out = []
     for c in cases:
         marks = [pytest.mark.xfail(strict=True, reason=c.known_bug)] if c.known_bug else []
-        out.append(pytest.param(c, id=re.sub(r"[^\w]+", "-", c.name).strip("-"), marks=marks))
+        out.append(pytest.param(c, id=re.sub(r"[^\w.+-]+", "-", c.name), marks=marks))
     return out
 
 
