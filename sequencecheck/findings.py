@@ -165,6 +165,7 @@ class Report:
 
     @property
     def violations(self) -> tuple[Finding, ...]:
+        """The violations listed; ``violation_count`` also counts the unlisted ones."""
         return tuple(f for f in self.findings if f.is_violation)
 
     @property

@@ -175,3 +175,12 @@ def test_clip_middle_keeps_start_and_end() -> None:
 def test_input_error_is_one_printable_line() -> None:
     e = InputError("bad\x1b[31m value\nhere", path="run\n\x1b.csv", line=3)
     assert str(e) == "run\\n\\x1b.csv:3: bad\\x1b[31m value here"
+
+
+def test_usage_errors_print_control_characters_escaped(tmp_path: Path) -> None:
+    path, _ = _noisy_csv(tmp_path / "noisy.csv", 50)
+    bad_leg = run_cli("check", path, "--leg", "A=AH\x1b[2J")  # not NAME=HIGH,LOW
+    bad_choice = run_cli("check", path, "--time-unit", "s\x1b[2J")
+    for r in (bad_leg, bad_choice):
+        assert r.returncode == 2 and r.stderr.count("\n") == 1, r.stderr
+        assert "\x1b" not in r.stderr and "\\x1b[2J" in r.stderr
