@@ -184,3 +184,24 @@ def test_usage_errors_print_control_characters_escaped(tmp_path: Path) -> None:
     for r in (bad_leg, bad_choice):
         assert r.returncode == 2 and r.stderr.count("\n") == 1, r.stderr
         assert "\x1b" not in r.stderr and "\\x1b[2J" in r.stderr
+
+
+def test_junit_and_sarif_count_unlisted_violations(tmp_path):
+    """A capped report still tells CI how many violations there were."""
+    import json as _json
+    import xml.etree.ElementTree as ET
+
+    from sequencecheck.cli import run as cli_run
+
+    rows = ["time_ns,AH,AL"] + [f"{10 * i},{i % 2},{i % 2}" for i in range(200)]
+    path = tmp_path / "noisy.csv"
+    path.write_text("\n".join(rows) + "\n")
+    junit, sarif = tmp_path / "r.xml", tmp_path / "r.sarif"
+    base = ["check", str(path), "--leg", "A=AH,AL", "--max-findings", "5"]
+    assert cli_run([*base, "--format", "junit", "--output", str(junit)]) == 1
+    assert cli_run([*base, "--format", "sarif", "--output", str(sarif)]) == 1
+    failure = next(ET.parse(junit).iter("failure"))
+    assert failure.get("message").startswith("100 violation(s)")  # 100 overlaps, 5 listed
+    assert "95 more not listed" in failure.text
+    (inp,) = _json.loads(sarif.read_text())["runs"][0]["properties"]["inputs"]
+    assert inp["violations"] == 100 and inp["unlistedViolations"] == {"shoot-through": 95}
