@@ -12,14 +12,16 @@ from typing import Any
 from ..errors import InputError
 from ..model import Trace
 from ._csv import read_csv
+from ._vcd import read_vcd
 
-__all__ = ["READERS", "read", "read_csv"]
+__all__ = ["READERS", "read", "read_csv", "read_vcd"]
 
 #: Suffix -> reader. Each reader takes the path and keyword options it understands.
 READERS: dict[str, Callable[..., Trace]] = {
     ".csv": read_csv,
     ".txt": read_csv,
     ".tsv": read_csv,
+    ".vcd": read_vcd,
 }
 
 

@@ -1,0 +1,347 @@
+"""The value-change part of a VCD, read chunk by chunk with state carried across borders.
+
+Each chunk (whole lines only) goes through the numpy fast path when every line is
+a timestamp ``#N``, a scalar change such as ``1!`` or empty; any other chunk goes
+through the general line parser. Both append to the same per-channel buffers, so
+the result does not depend on where chunks are cut.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+import numpy as np
+
+from ..errors import InputError
+from ..model import Level
+from ._vcd_header import BitSelect, VcdHeader
+
+__all__ = ["VcdBody"]
+
+_LEVEL = {"0": Level.LOW, "1": Level.HIGH, "x": Level.X, "z": Level.Z}
+_VALUE_LUT = np.full(256, 255, dtype=np.uint8)
+for _c, _v in (("0", 0), ("1", 1), ("x", 2), ("X", 2), ("z", 3), ("Z", 3)):
+    _VALUE_LUT[ord(_c)] = _v
+_DUMP_SECTIONS = {"$dumpvars", "$dumpon", "$dumpoff", "$dumpall"}
+_UNDECLARED, _GENERAL, _UNWANTED = -3, -2, -1
+_MAX_TICK_DIGITS = 18
+
+
+class VcdBody:
+    """Accumulates the changes of the selected channels, in ticks, chunk after chunk."""
+
+    def __init__(self, path: str, head: VcdHeader, selects: Sequence[BitSelect]) -> None:
+        self.path = path
+        self.num, self.den = head.ps_per_tick.numerator, head.ps_per_tick.denominator
+        self.timescale = head.timescale or "1 s"
+        self.max_tick = (2**63 - 1) * self.den // self.num
+        self.declared = {v.code: v for v in reversed(head.variables)}  # first declaration wins
+        self.slot_of: dict[tuple[str, int], int] = {}
+        self.channel_slot: list[int] = []
+        for s in selects:
+            self.channel_slot.append(self.slot_of.setdefault((s.code, s.offset), len(self.slot_of)))
+        self.slots_by_code: dict[str, list[tuple[int, int]]] = {}
+        for (code, offset), slot in self.slot_of.items():
+            self.slots_by_code.setdefault(code, []).append((slot, offset))
+        n = len(self.slot_of)
+        self.times: list[list[np.ndarray]] = [[] for _ in range(n)]
+        self.levels: list[list[np.ndarray]] = [[] for _ in range(n)]
+        self.lines: list[list[np.ndarray]] = [[] for _ in range(n)]
+        self.time = -1  # current time in ticks; -1 before the first timestamp
+        self.first_time: int | None = None
+        self.changes = 0
+        self.section: tuple[str, int] | None = None  # open $keyword and its line
+        self.pending: tuple[str, int] | None = None  # vector/real value awaiting its id
+        self._id_lut = self._one_char_lut()
+        self.fast_chunks = self.general_chunks = 0
+
+    # -- lookup tables for the fast path ---------------------------------------------------
+    def _one_char_lut(self) -> np.ndarray:
+        lut = np.full(256, _UNDECLARED, dtype=np.int64)
+        for code, var in self.declared.items():
+            if len(code) != 1:
+                continue
+            slots = self.slots_by_code.get(code, [])
+            if var.width != 1 or var.kind == "real" or len(slots) > 1:
+                lut[ord(code)] = _GENERAL if slots or var.kind == "real" else _UNWANTED
+            else:
+                lut[ord(code)] = slots[0][0] if slots else _UNWANTED
+        return lut
+
+    # -- chunks ------------------------------------------------------------------------------
+    def feed(self, data: bytes, first_line: int) -> None:
+        """Consume ``data`` (whole lines) whose first line is number ``first_line``.
+
+        Runs of plain lines go through the numpy fast path; from the first line it
+        cannot take, the general parser runs until no section or value is open.
+        """
+        pos, line = 0, first_line
+        while pos < len(data):
+            taken = 0
+            if self.section is None and self.pending is None:
+                used, taken = self._fast(data, pos, line)
+                pos += used
+                line += taken
+                if pos >= len(data):
+                    break
+            used, lines = self._general(data, pos, line, min_lines=1 if taken >= 64 else 4096)
+            pos += used
+            line += lines
+
+    def _store(self, slot: int, t: np.ndarray, v: np.ndarray, ln: np.ndarray) -> None:
+        self.times[slot].append(t)
+        self.levels[slot].append(v)
+        self.lines[slot].append(ln)
+
+    def _fast(self, data: bytes, pos: int, first_line: int) -> tuple[int, int]:
+        """Take the leading plain lines of ``data[pos:]``; return (bytes, lines) taken."""
+        buf = np.frombuffer(data, dtype=np.uint8, offset=pos)
+        nl = np.flatnonzero(buf == 10)
+        if nl.size == 0:
+            return 0, 0
+        starts = np.empty_like(nl)
+        starts[0] = 0
+        starts[1:] = nl[:-1] + 1
+        ends = nl
+        if data.find(b"\r", pos) >= 0:
+            ends = nl - ((buf[np.maximum(nl - 1, 0)] == 13) & (nl > starts))
+        length = ends - starts
+        head = buf[starts]  # the newline itself for an empty line
+        is_time = (head == 35) & (length >= 2) & (length <= _MAX_TICK_DIGITS + 1)
+        is_change = (length == 2) & (_VALUE_LUT[head] < 4)
+        slot = self._id_lut[buf[np.minimum(starts + 1, buf.size - 1)]]
+        ok = is_time | (is_change & (slot > _GENERAL)) | (length == 0)
+        t_idx = np.flatnonzero(is_time)
+        ticks, bad_tick = _parse_ticks(buf, starts[t_idx] + 1, ends[t_idx])
+        if bad_tick is not None:
+            ok[t_idx[bad_tick]] = False
+        n = nl.size if ok.all() else int(np.argmin(ok))
+        if n == 0:
+            return 0, 0
+        if n < nl.size:
+            cut = np.searchsorted(t_idx, n)
+            ticks, t_idx = ticks[:cut], t_idx[:cut]
+            is_time, is_change, slot = is_time[:n], is_change[:n], slot[:n]
+        self._check_times(ticks, t_idx + first_line)
+        # each change takes the time of the last timestamp line before it
+        table = np.empty(ticks.size + 1, dtype=np.int64)
+        table[0] = self.time
+        table[1:] = ticks
+        c_idx = np.flatnonzero(is_change)
+        self.changes += int(c_idx.size)
+        if ticks.size:
+            self.time = int(ticks[-1])
+            if self.first_time is None:
+                self.first_time = int(ticks[0])
+        ch_slot = slot[c_idx]
+        counts = np.bincount(ch_slot + 1)[1:] if c_idx.size else np.zeros(0, np.int64)
+        if counts.any():
+            t_of_change = table[np.cumsum(is_time)[c_idx]]
+            level = _VALUE_LUT[head[c_idx]].astype(np.int8)
+            lines = c_idx.astype(np.int64) + first_line
+            for s in np.flatnonzero(counts).tolist():
+                m = ch_slot == s
+                self._store(s, t_of_change[m], level[m], lines[m])
+        return int(nl[n - 1]) + 1, n
+
+    def _check_times(self, ticks: np.ndarray, lines: np.ndarray) -> None:
+        """Raise for the first timestamp that goes back or is not a whole picosecond."""
+        if ticks.size == 0:
+            return
+        prev = np.empty_like(ticks)
+        prev[0] = self.time
+        prev[1:] = ticks[:-1]
+        bad = (ticks < prev) | (ticks > self.max_tick)
+        if self.den != 1:
+            bad |= ticks % self.den != 0
+        if bad.any():
+            i = int(np.flatnonzero(bad)[0])
+            self._check_time(int(prev[i]), int(ticks[i]), int(lines[i]))
+
+    def _check_time(self, before: int, now: int, line: int) -> None:
+        if now < before:
+            self._backwards(before, now, line)
+        if now > self.max_tick:
+            self._fail(f"timestamp #{now} is too large to hold in picoseconds", line)
+        if self.den != 1 and now % self.den:
+            self._fail(
+                f"timestamp #{now} at a timescale of {self.timescale} is not a whole "
+                "picosecond; expected times in whole picoseconds",
+                line,
+            )
+
+    def _backwards(self, before: int, now: int, line: int) -> None:
+        raise InputError(
+            f"timestamp #{now} goes back in time after #{before}; expected non-decreasing times",
+            path=self.path,
+            line=line,
+        )
+
+    # -- the general line parser ------------------------------------------------------------
+    def _general(self, data: bytes, pos: int, first_line: int, min_lines: int) -> tuple[int, int]:
+        """Parse lines of ``data[pos:]`` one by one until at least ``min_lines`` are done
+        and no section or value is open; return (bytes, lines) taken."""
+        out: dict[int, tuple[list[int], list[int], list[int]]] = {}
+        i, n, size = pos, 0, len(data)
+        while i < size:
+            j = data.find(b"\n", i)
+            end = size if j < 0 else j + 1
+            for tok in data[i:end].decode("latin-1").split():
+                self._token(tok, first_line + n, out)
+            n += 1
+            i = end
+            if n >= min_lines and self.section is None and self.pending is None:
+                break
+        for s, (t, v, lines) in out.items():
+            self._store(
+                s,
+                np.array(t, dtype=np.int64),
+                np.array(v, dtype=np.int8),
+                np.array(lines, dtype=np.int64),
+            )
+        return i - pos, n
+
+    def _token(self, tok: str, ln: int, out: dict) -> None:
+        if self.section is not None:
+            if tok == "$end":
+                self.section = None
+                return
+            if self.section[0] not in _DUMP_SECTIONS:
+                return  # $comment text
+        if self.pending is not None:
+            value, vline = self.pending
+            self.pending = None
+            self._vector(value, tok, vline, out)
+            return
+        c = tok[0]
+        if c == "#":
+            digits = tok[1:]
+            if not digits.isdigit() or not digits.isascii():
+                self._fail(f"expected a timestamp such as #100, found {tok[:40]!r}", ln)
+            t = int(digits)
+            if t < self.time or t > self.max_tick or (self.den != 1 and t % self.den):
+                self._check_time(self.time, t, ln)
+            self.time = t
+            if self.first_time is None:
+                self.first_time = t
+        elif c in "01xXzZ":
+            if len(tok) == 1:
+                self._fail(f"value {tok!r} has no identifier code after it", ln)
+            self._scalar(_LEVEL[c.lower()], tok[1:], ln, out)
+        elif c in "bBrR":
+            self.pending = (tok, ln)
+        elif c == "$":
+            if tok in _DUMP_SECTIONS or tok == "$comment":
+                self.section = (tok, ln)
+            elif tok == "$end":
+                self._fail("$end without an open section", ln)
+            else:
+                self._fail(
+                    f"{tok} is not allowed after $enddefinitions; expected #time, a value "
+                    "change, $dumpvars, $dumpon, $dumpoff, $dumpall or $comment",
+                    ln,
+                )
+        else:
+            self._fail(
+                f"expected a timestamp (#N) or a value change (0!, b1010 !, r1.5 !), "
+                f"found {tok[:40]!r}",
+                ln,
+            )
+
+    def _code(self, code: str, ln: int) -> None:
+        if code not in self.declared:
+            self._fail(f"identifier code {code!r} was never declared in a $var", ln)
+
+    def _scalar(self, level: int, code: str, ln: int, out: dict) -> None:
+        self._code(code, ln)
+        self.changes += 1
+        for slot, offset in self.slots_by_code.get(code, ()):
+            width = self.declared[code].width
+            bit = level if offset == width - 1 or level >= Level.X else Level.LOW
+            t, v, lines = out.setdefault(slot, ([], [], []))
+            t.append(self.time)
+            v.append(bit)
+            lines.append(ln)
+
+    def _vector(self, value: str, code: str, ln: int, out: dict) -> None:
+        self._code(code, ln)
+        self.changes += 1
+        if value[0] in "rR":
+            return  # real values carry no logic level
+        digits = value[1:].lower()
+        if not digits or any(d not in "01xz" for d in digits):
+            self._fail(f"expected a binary vector such as b1010, found {value[:40]!r}", ln)
+        width = self.declared[code].width
+        if len(digits) > width:
+            self._fail(
+                f"vector value {value[:40]!r} has {len(digits)} bits, but {code!r} is "
+                f"declared {width} bits wide",
+                ln,
+            )
+        pad = digits[0] if digits[0] in "xz" else "0"
+        digits = pad * (width - len(digits)) + digits
+        for slot, offset in self.slots_by_code.get(code, ()):
+            t, v, lines = out.setdefault(slot, ([], [], []))
+            t.append(self.time)
+            v.append(_LEVEL[digits[offset]])
+            lines.append(ln)
+
+    def _fail(self, message: str, line: int) -> None:
+        raise InputError(message, path=self.path, line=line)
+
+    def finish(self, last_line: int) -> None:
+        """Say so if the file ended in the middle of something."""
+        if self.section is not None:
+            kw, ln = self.section
+            self._fail(f"file ends inside {kw} (truncated?); expected $end", ln)
+        if self.pending is not None:
+            value, ln = self.pending
+            self._fail(
+                f"file ends after value {value[:40]!r} (truncated?); expected an identifier code",
+                ln,
+            )
+
+
+_ZEROS = np.uint64(0x3030303030303030)
+_HI_NIBBLES = np.uint64(0xF0F0F0F0F0F0F0F0)
+_SIX = np.uint64(0x0606060606060606)
+_M8, _M16, _M32 = (np.uint64(m) for m in (0x00FF00FF00FF00FF, 0x0000FFFF0000FFFF, 0xFFFFFFFF))
+
+
+def _parse_ticks(
+    buf: np.ndarray, starts: np.ndarray, ends: np.ndarray
+) -> tuple[np.ndarray, int | None]:
+    """Decimal digits ``buf[starts:ends]`` per row as int64 (eight digits at a time).
+
+    Returns the values and the index of the first row that is not all digits
+    (its value and later ones are meaningless), or None when all are numbers.
+    """
+    n = starts.size
+    if n == 0:
+        return np.empty(0, dtype=np.int64), None
+    pad = 8 * ((_MAX_TICK_DIGITS + 7) // 8)
+    padded = np.empty(buf.size + pad, dtype=np.uint8)
+    padded[:pad] = 48
+    padded[pad:] = buf
+    words_at = np.ndarray(
+        shape=(padded.size - 7,), dtype="<u8", buffer=padded.data, offset=0, strides=(1,)
+    )  # the 8 bytes starting at every byte offset, as little-endian integers
+    length = ends - starts
+    out = np.zeros(n, dtype=np.uint64)
+    bad = np.zeros(n, dtype=bool)
+    for w in range((int(length.max()) + 7) // 8):
+        pos = ends + pad - 8 * (w + 1)
+        word = words_at[pos]
+        keep = np.clip(length - 8 * w, 0, 8).astype(np.uint64)
+        junk_bits = (np.uint64(8) - keep) * np.uint64(8)
+        low = (np.uint64(1) << np.minimum(junk_bits, np.uint64(63))) - np.uint64(1)
+        low[keep == 0] = np.uint64(0xFFFFFFFFFFFFFFFF)
+        word = (word & ~low) | (_ZEROS & low)
+        bad |= ((word & _HI_NIBBLES) != _ZEROS) | (((word + _SIX) & _HI_NIBBLES) != _ZEROS)
+        v = word - _ZEROS
+        v = (v * np.uint64(10) + (v >> np.uint64(8))) & _M8
+        v = (v * np.uint64(100) + (v >> np.uint64(16))) & _M16
+        v = (v * np.uint64(10000) + (v >> np.uint64(32))) & _M32
+        out += v * np.uint64(10 ** (8 * w))
+    first_bad = int(np.argmax(bad)) if bad.any() else None
+    return out.view(np.int64), first_bad
