@@ -51,6 +51,7 @@ class VcdBody:
         self.first_time: int | None = None
         self.changes = 0
         self.section: tuple[str, int] | None = None  # open $keyword and its line
+        self.outer: tuple[str, int] | None = None  # a dump section around a $comment
         self.pending: tuple[str, int] | None = None  # vector/real value awaiting its id
         self._id_lut = self._one_char_lut()
         self.fast_chunks = self.general_chunks = 0
@@ -204,10 +205,14 @@ class VcdBody:
     def _token(self, tok: str, ln: int, out: dict) -> None:
         if self.section is not None:
             if tok == "$end":
-                self.section = None
+                self.section = self.outer
+                self.outer = None
                 return
             if self.section[0] not in _DUMP_SECTIONS:
                 return  # $comment text
+            if tok == "$comment":
+                self.outer, self.section = self.section, (tok, ln)
+                return
         if self.pending is not None:
             value, vline = self.pending
             self.pending = None

@@ -259,7 +259,14 @@ def _select_one(variables: list[VcdVar], head: VcdHeader, name: str, path: str) 
                     )
                 return BitSelect(name, v.code, 1, 0)
             return BitSelect(name, v.code, v.width, v.offset_of(bit) or 0)
-    if any(v.full_name == base or v.ref == base for v in head.variables):
+    named = [v for v in head.variables if base in (v.full_name, v.ref)]
+    if named and bit is not None and named[0].kind != "real":
+        v = named[0]
+        raise InputError(
+            f"channel {name!r}: {v.full_name} has no bit {bit} (range [{v.msb}:{v.lsb}])",
+            path=path,
+        )
+    if named:
         raise InputError(f"channel {name!r} is a real variable, not a logic level", path=path)
     known = ", ".join(v.full_name for v in head.variables[:12]) or "none"
     raise InputError(f"no variable {name!r} in the VCD (variables: {known})", path=path)
