@@ -14,9 +14,10 @@ Each row's values hold until the next row's time.
 from __future__ import annotations
 
 import csv
+import io
 import os
 import re
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -24,13 +25,14 @@ import numpy as np
 from ..errors import InputError, UsageError
 from ..model import Channel, Trace
 from ..units import unit_scale
+from ._csv_fast import Decline, raw_batches, takes_layout
 
 __all__ = ["CsvLayout", "read_csv", "sniff_layout"]
 
 _UNIT_IN_NAME = re.compile(
     r"(?:[\s_\-]*[\(\[]\s*|[_\-\s])(s|ms|us|µs|μs|ns|ps)\s*[\)\]]?\s*$", re.I
 )
-BLOCK_BYTES = 4 << 20
+BLOCK_BYTES = 1 << 20
 
 
 @dataclass(frozen=True, slots=True)
@@ -109,17 +111,28 @@ def sniff_layout(
     return CsvLayout(delimiter, names, time_index, ps_per_tick, sample_period_ps, len(head))
 
 
-def _arrow_batches(path: str, layout: CsvLayout, columns: Sequence[str]) -> Iterator[object]:
+def _arrow_batches(
+    path: str,
+    layout: CsvLayout,
+    columns: Sequence[str],
+    block_bytes: int = BLOCK_BYTES,
+    progress: Callable[[int], None] | None = None,
+) -> Iterator[tuple[np.ndarray, list[np.ndarray]]]:
+    """Yield (time column, channel columns) per pyarrow block, as numpy arrays."""
     import pyarrow as pa
     import pyarrow.csv as pacsv
 
     time_name = layout.names[layout.time_index]
     types = {name: pa.int8() for name in columns}
     types[time_name] = pa.int64() if layout.ps_per_tick is None else pa.float64()
+    source = _CountingFile(path)
     reader = pacsv.open_csv(
-        path,
+        source,
         read_options=pacsv.ReadOptions(
-            column_names=list(layout.names), skip_rows=1, block_size=BLOCK_BYTES, use_threads=True
+            column_names=list(layout.names),
+            skip_rows=1,
+            block_size=max(block_bytes, 1 << 16),
+            use_threads=True,
         ),
         parse_options=pacsv.ParseOptions(delimiter=layout.delimiter, ignore_empty_lines=False),
         convert_options=pacsv.ConvertOptions(
@@ -129,7 +142,36 @@ def _arrow_batches(path: str, layout: CsvLayout, columns: Sequence[str]) -> Iter
             quoted_strings_can_be_null=False,
         ),
     )
-    yield from reader
+    time_type = np.int64 if layout.ps_per_tick is None else np.float64
+    try:
+        for batch in reader:
+            t = _numpy(batch.column(0), time_type)
+            yield t, [_numpy(batch.column(i), np.int8) for i in range(1, len(columns) + 1)]
+            if progress is not None:
+                progress(source.done)
+    finally:
+        source.close()
+
+
+class _CountingFile(io.RawIOBase):
+    """A binary file that counts the bytes handed out (for progress on pyarrow's path)."""
+
+    def __init__(self, path: str) -> None:
+        super().__init__()
+        self._f = open(path, "rb")  # noqa: SIM115 - closed by close()
+        self.done = 0
+
+    def readable(self) -> bool:
+        return True
+
+    def readinto(self, b: bytearray) -> int:  # type: ignore[override]
+        n = self._f.readinto(b)
+        self.done += n or 0
+        return n or 0
+
+    def close(self) -> None:
+        self._f.close()
+        super().close()
 
 
 def _numpy(col: object, dtype: type) -> np.ndarray:
@@ -223,13 +265,22 @@ def read_csv(
     time_column: str | None = None,
     time_unit: str | None = None,
     sample_rate_hz: float | None = None,
+    chunk_bytes: int = BLOCK_BYTES,
+    progress: Callable[[int], None] | None = None,
+    fast_path: bool = True,
 ) -> Trace:
     """Read a CSV capture into a Trace of the named channels (default: every column).
 
-    Memory is bounded by the number of edges: rows are parsed in blocks and
-    only changes are kept. Raises InputError naming the row of any bad value.
+    Memory is bounded by the number of edges: rows are parsed in chunks of about
+    ``chunk_bytes`` and only changes are kept. Rows in the common fixed layout
+    (time first, then 0/1 channels) take a raw-bytes numpy path; any other shape
+    goes through pyarrow. Raises InputError naming the row of any bad value;
+    ``progress`` is called with the bytes read so far after each chunk;
+    ``fast_path=False`` forces the general reader (for comparisons).
     """
     path = os.fspath(path)
+    if chunk_bytes < 1:
+        raise ValueError("chunk_bytes must be >= 1")
     layout = sniff_layout(
         path, time_column=time_column, time_unit=time_unit, sample_rate_hz=sample_rate_hz
     )
@@ -242,56 +293,103 @@ def read_csv(
                 path=path,
                 line=1,
             )
+    if fast_path and takes_layout(layout.names, layout.time_index, layout.delimiter):
+        picks = [layout.names.index(name) - 1 for name in wanted]
+        raw = raw_batches(
+            path,
+            layout.header_bytes,
+            len(layout.names) - 1,
+            layout.delimiter,
+            layout.ps_per_tick is None,
+            chunk_bytes,
+            progress,
+        )
+        try:
+            return _assemble(path, layout, wanted, ((t, v[picks]) for t, v in raw))
+        except Decline:
+            pass  # not the fixed layout after all: the general reader decides
+    batches = _arrow_batches(path, layout, wanted, chunk_bytes, progress)
+    return _assemble(path, layout, wanted, batches)
+
+
+def _first_problem(
+    path: str,
+    layout: CsvLayout,
+    wanted: Sequence[str],
+    first_line: int,
+    tf: np.ndarray | None,
+    t: np.ndarray,
+    last_t: int | None,
+    values: Sequence[np.ndarray],
+) -> InputError | None:
+    """The earliest bad row of a batch (non-finite or decreasing time, value not 0/1)."""
+    time_name = layout.names[layout.time_index]
+    found: list[tuple[int, int, str]] = []  # (row, order at a tie, message)
+    if tf is not None and not np.isfinite(tf).all():
+        bad = int(np.flatnonzero(~np.isfinite(tf))[0])
+        found.append((bad, 0, f"column {time_name!r}: expected a finite time, found {tf[bad]}"))
+    prev = np.empty_like(t)
+    prev[1:] = t[:-1]
+    prev[0] = t[0] if last_t is None else last_t
+    back = np.flatnonzero(t < prev)
+    if back.size:
+        found.append(
+            (
+                int(back[0]),
+                1,
+                f"time goes backwards (column {time_name!r}); expected non-decreasing time",
+            )
+        )
+    for name, v in zip(wanted, values, strict=True):
+        over = v.view(np.uint8) > 1
+        if over.any():
+            bad = int(np.flatnonzero(over)[0])
+            found.append((bad, 2, f"column {name!r}: expected 0 or 1, found {int(v[bad])}"))
+    if not found:
+        return None
+    row, _, message = min(found)
+    return InputError(message, path=path, line=first_line + row)
+
+
+def _assemble(
+    path: str,
+    layout: CsvLayout,
+    wanted: Sequence[str],
+    batches: Iterator[tuple[np.ndarray, Sequence[np.ndarray]]],
+) -> Trace:
+    """Turn batches of (raw times, values per wanted channel) into a Trace."""
+    time_name = layout.names[layout.time_index]
     collectors = {name: _EdgeCollector() for name in wanted}
     rows = 0
     first_t = last_t = None
     min_step = max_step = None
     try:
-        for batch in _arrow_batches(path, layout, wanted):
-            n = batch.num_rows  # type: ignore[attr-defined]
+        for raw_t, values in batches:
+            n = raw_t.size
             if n == 0:
                 continue
             first_line = rows + 2
-            raw = batch.column(0)  # type: ignore[attr-defined]
             if layout.ps_per_tick is None:
-                t = _numpy(raw, np.int64) * np.int64(layout.sample_period_ps)
+                tf = None
+                t = raw_t.astype(np.int64, copy=False) * np.int64(layout.sample_period_ps)
             else:
-                tf = _numpy(raw, np.float64)
-                if not np.isfinite(tf).all():
-                    bad = int(np.flatnonzero(~np.isfinite(tf))[0])
-                    raise InputError(
-                        f"column {time_name!r}: expected a finite time, found {tf[bad]}",
-                        path=path,
-                        line=first_line + bad,
-                    )
+                tf = raw_t
                 t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
+            problem = _first_problem(path, layout, wanted, first_line, tf, t, last_t, values)
+            if problem is not None:
+                raise problem
             steps = np.diff(t) if last_t is None else np.diff(t, prepend=last_t)
             if steps.size:
-                if steps.min() < 0:
-                    bad = int(np.flatnonzero(steps < 0)[0]) + (1 if last_t is None else 0)
-                    raise InputError(
-                        f"time goes backwards (column {time_name!r}); expected non-decreasing time",
-                        path=path,
-                        line=first_line + bad,
-                    )
                 lo, hi = int(steps.min()), int(steps.max())
                 min_step = lo if min_step is None else min(min_step, lo)
                 max_step = hi if max_step is None else max(max_step, hi)
             if first_t is None:
                 first_t = int(t[0])
             last_t = int(t[-1])
-            for i, name in enumerate(wanted, start=1):
-                v = _numpy(batch.column(i), np.int8)  # type: ignore[attr-defined]
-                if (v.view(np.uint8) > 1).any():
-                    bad = int(np.flatnonzero(v.view(np.uint8) > 1)[0])
-                    raise InputError(
-                        f"column {name!r}: expected 0 or 1, found {int(v[bad])}",
-                        path=path,
-                        line=first_line + bad,
-                    )
+            for name, v in zip(wanted, values, strict=True):
                 collectors[name].feed(v, t, first_line)
             rows += n
-    except InputError:
+    except (InputError, Decline):
         raise
     except Exception:  # pyarrow's parse/convert errors carry no row: find it ourselves
         raise _diagnose(path, layout, wanted) from None

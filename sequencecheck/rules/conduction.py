@@ -44,7 +44,10 @@ def handovers(turning_on: Intervals, turning_off: Intervals, direction: Directio
     _, off_t = turning_off.edge_ends()
     j = np.searchsorted(off_t, on_t, side="right") - 1  # latest complement turn-off <= on
     k = np.searchsorted(turning_off.starts, on_t, side="right") - 1  # complement interval
-    complement_on = (k >= 0) & (turning_off.ends[np.maximum(k, 0)] > on_t)
+    if turning_off.ends.size:
+        complement_on = (k >= 0) & (turning_off.ends[np.maximum(k, 0)] > on_t)
+    else:  # the complement never conducted in the window
+        complement_on = np.zeros(on_t.size, dtype=bool)
     prev_own_off = np.where(
         idx > 0, turning_on.ends[np.maximum(idx - 1, 0)], np.iinfo(np.int64).min
     )

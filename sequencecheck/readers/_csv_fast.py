@@ -1,0 +1,250 @@
+"""The raw-bytes fast path for CSV captures shaped ``time,ch,ch,...`` with 0/1 channels.
+
+Logic-analyzer exports write every row in the same layout: a time field, then one
+``,0``/``,1`` per channel. A run of rows of equal length is then a 2-D byte array,
+and every field sits at a fixed column: channels are read as strided byte
+columns, and the time field eight digits at a time (SWAR: SIMD within a register)
+from strided 64-bit words. Every byte of every row is checked against the layout
+of the run's first row; anything else raises :class:`Decline` and the general
+(pyarrow) reader takes the file, so errors and odd shapes behave exactly as there.
+
+Times equal pyarrow's parse: the decimal's mantissa and exponent are exact
+integers, and ``mantissa / 10**k`` (or ``* 10**k``) is correctly rounded while the
+mantissa is below 2**53 and k <= 22 (the fast path of Clinger's algorithm).
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Callable, Iterator, Sequence
+
+import numpy as np
+
+__all__ = ["PAD", "Decline", "raw_batches", "takes_layout"]
+
+PAD = 16  # bytes in front of each chunk so that 8-byte words never start before it
+_MAX_RUNS = 64  # more distinct row lengths in one chunk than this: not a fixed layout
+_ZEROS = 0x3030303030303030
+_HI = np.uint64(0xF0F0F0F0F0F0F0F0)
+_SIX = np.uint64(0x0606060606060606)
+_M8, _M16, _M32 = (np.uint64(m) for m in (0x00FF00FF00FF00FF, 0x0000FFFF0000FFFF, 0xFFFFFFFF))
+_FLOAT = re.compile(r"^(?P<sign>s?)(?P<int>d*)(?:(?P<dot>\.)(?P<frac>d*))?(?:e(?P<esign>s?)(?P<exp>d+))?$")
+_CLASS = {**{chr(c): "d" for c in range(48, 58)}, ".": ".", "e": "e", "E": "e", "+": "s", "-": "s"}
+_POW10 = np.array([10.0**i for i in range(23)])
+
+
+class Decline(Exception):
+    """The fast path does not take this input; read it with the general reader."""
+
+
+def takes_layout(names: Sequence[str], time_index: int, delimiter: str) -> bool:
+    """Whether the header allows the fast path: time first, single-byte delimiter."""
+    return time_index == 0 and len(delimiter.encode()) == 1 and len(names) >= 2
+
+
+def _words(buf: bytes, start: int, n: int, stride: int) -> np.ndarray:
+    """The 8 bytes at ``start + i*stride`` for each row i, as little-endian uint64."""
+    return np.ndarray(shape=(n,), dtype="<u8", buffer=buf, offset=start, strides=(stride,))
+
+
+def _column(buf: bytes, start: int, n: int, stride: int) -> np.ndarray:
+    return np.ndarray(shape=(n,), dtype=np.uint8, buffer=buf, offset=start, strides=(stride,))
+
+
+def _digits(buf: bytes, start: int, n: int, stride: int, lo: int, hi: int) -> np.ndarray:
+    """Value of the decimal digits at row columns ``[lo, hi)``; Decline if any is not a digit."""
+    if hi - lo <= 2:  # one or two digits: byte columns beat a 64-bit word
+        out = np.zeros(n, dtype=np.uint64)
+        for col in range(lo, hi):
+            d = _column(buf, start + col, n, stride) - np.uint8(48)
+            if (d > 9).any():
+                raise Decline
+            out *= np.uint64(10)
+            out += d
+        return out
+    out = np.zeros(n, dtype=np.uint64)
+    for w in range((hi - lo + 7) // 8):
+        keep = min(8, hi - lo - 8 * w)
+        junk = (1 << (8 * (8 - keep))) - 1  # low bytes: before the run
+        word = _words(buf, start + hi - 8 * (w + 1), n, stride)
+        if junk:
+            word = (word & np.uint64(~junk & 0xFFFFFFFFFFFFFFFF)) | np.uint64(_ZEROS & junk)
+        else:
+            word = word.copy()  # contiguous from here on
+        hi_nib = word & _HI
+        bad = hi_nib != np.uint64(_ZEROS)
+        np.add(word, _SIX, out=hi_nib)
+        hi_nib &= _HI
+        bad |= hi_nib != np.uint64(_ZEROS)
+        if bad.any():
+            raise Decline
+        word -= np.uint64(_ZEROS)
+        np.right_shift(word, np.uint64(8), out=hi_nib)
+        word *= np.uint64(10)
+        word += hi_nib
+        word &= _M8
+        np.right_shift(word, np.uint64(16), out=hi_nib)
+        word *= np.uint64(100)
+        word += hi_nib
+        word &= _M16
+        np.right_shift(word, np.uint64(32), out=hi_nib)
+        word *= np.uint64(10000)
+        word += hi_nib
+        word &= _M32
+        if w:
+            word *= np.uint64(10 ** (8 * w))
+        out += word
+    return out
+
+
+def _signs(buf: bytes, start: int, n: int, stride: int, col: int) -> np.ndarray:
+    c = _column(buf, start + col, n, stride)
+    if not ((c == 43) | (c == 45)).all():
+        raise Decline
+    return c == 45
+
+
+def _times(
+    buf: bytes, start: int, n: int, stride: int, width: int, integer: bool
+) -> np.ndarray:
+    """Time fields (columns ``[0, width)`` of each row) as float64, or int64 when ``integer``."""
+    first = buf[start : start + width].decode("latin-1")
+    pattern = "".join(_CLASS.get(ch, "?") for ch in first)
+    m = _FLOAT.match(pattern)
+    if m is None or (not m["int"] and not m["frac"]):
+        raise Decline
+    if integer and (m["dot"] or m["exp"] is not None or m["sign"]):
+        raise Decline  # sample indexes: plain digits only
+    for col, ch in enumerate(first):  # dot and exponent letter: same byte in every row
+        if ch in ".eE" and not (_column(buf, start + col, n, stride) == ord(ch)).all():
+            raise Decline
+    int_lo, int_hi = m.span("int")
+    frac_lo, frac_hi = m.span("frac") if m["dot"] else (int_hi, int_hi)
+    n_frac = frac_hi - frac_lo
+    n_digits = (int_hi - int_lo) + n_frac
+    if n_digits > 18:
+        raise Decline
+    mant = _digits(buf, start, n, stride, int_lo, int_hi) if int_hi > int_lo else 0
+    if n_frac:
+        frac = _digits(buf, start, n, stride, frac_lo, frac_hi)
+        mant = mant * np.uint64(10**n_frac) + frac if int_hi > int_lo else frac
+    mant = np.asarray(mant, dtype=np.uint64)
+    negative = _signs(buf, start, n, stride, 0) if m["sign"] else None
+    if integer:
+        out = mant.astype(np.int64)
+        return np.negative(out, where=negative, out=out) if negative is not None else out
+    if n_digits > 15 and int(mant.max(initial=0)) > 2**53:
+        raise Decline  # beyond exact float64 integers: leave the rounding to pyarrow
+    value = mant.astype(np.float64)
+    if m["exp"] is None:
+        if n_frac:
+            value /= _POW10[n_frac]
+    else:
+        e10 = _digits(buf, start, n, stride, *m.span("exp")).astype(np.int64)
+        if m["esign"]:
+            np.negative(e10, where=_signs(buf, start, n, stride, m.start("esign")), out=e10)
+        e10 -= n_frac
+        if int(np.abs(e10).max(initial=0)) > 22:
+            raise Decline
+        up = e10 >= 0
+        value = np.where(up, value * _POW10[np.where(up, e10, 0)], value / _POW10[np.where(up, 0, -e10)])
+    if negative is not None:
+        np.negative(value, where=negative, out=value)
+    return value
+
+
+def _run(
+    buf: bytes, start: int, n: int, stride: int, n_channels: int, delim: int, integer: bool
+) -> tuple[np.ndarray, np.ndarray]:
+    """One run of ``n`` rows of ``stride`` bytes: (times, channel byte columns - '0')."""
+    cr = 1 if stride >= 2 and buf[start + stride - 2] == 13 else 0
+    if not (_column(buf, start + stride - 1, n, stride) == 10).all():
+        raise Decline
+    if cr and not (_column(buf, start + stride - 2, n, stride) == 13).all():
+        raise Decline
+    width = stride - 1 - cr - 2 * n_channels
+    if width < 1:
+        raise Decline
+    values = np.empty((n_channels, n), dtype=np.int8)
+    for g in range(0, n_channels, 4):  # four ",v" pairs per 64-bit word
+        k = min(4, n_channels - g)
+        end = width + 2 * (g + k)  # column just after this group's last value
+        mask = pattern = 0
+        for j in range(k):
+            shift = 8 * (8 - 2 * (k - j))  # little-endian: later bytes are higher
+            mask |= (0xFF | 0xFE << 8) << shift
+            pattern |= (delim | 48 << 8) << shift
+        raw = _words(buf, start + end - 8, n, stride).copy()
+        if ((raw & np.uint64(mask)) != np.uint64(pattern)).any():
+            raise Decline
+        as_bytes = raw.view(np.uint8).reshape(n, 8)
+        for j in range(k):
+            np.bitwise_and(as_bytes[:, 9 - 2 * (k - j)], 1, out=values[g + j].view(np.uint8))
+    return _times(buf, start, n, stride, width, integer), values
+
+
+def _chunk(
+    buf: bytearray, size: int, n_channels: int, delim: int, integer: bool
+) -> Iterator[tuple[np.ndarray, np.ndarray]]:
+    """Split ``buf[PAD:PAD + size]`` (whole lines) into runs of equal row length, parse each."""
+    stride = buf.find(b"\n", PAD) - PAD + 1
+    if (
+        size % stride == 0
+        and (_column(buf, PAD + stride - 1, size // stride, stride) == 10).all()
+    ):
+        # every row ends where the first does; _run checks every other byte
+        yield _run(buf, PAD, size // stride, stride, n_channels, delim, integer)
+        return
+    arr = np.frombuffer(buf, dtype=np.uint8, count=size, offset=PAD)
+    ends = np.flatnonzero(arr == 10) + 1
+    lengths = np.diff(ends, prepend=0)
+    cuts = np.flatnonzero(lengths[1:] != lengths[:-1]) + 1
+    if cuts.size >= _MAX_RUNS:
+        raise Decline
+    bounds = [0, *cuts.tolist(), lengths.size]
+    for a, b in zip(bounds[:-1], bounds[1:], strict=True):
+        offset = PAD + (int(ends[a - 1]) if a else 0)
+        yield _run(buf, offset, b - a, int(lengths[a]), n_channels, delim, integer)
+
+
+def raw_batches(
+    path: str,
+    header_bytes: int,
+    n_channels: int,
+    delimiter: str,
+    integer_time: bool,
+    chunk_bytes: int,
+    progress: Callable[[int], None] | None = None,
+) -> Iterator[tuple[np.ndarray, np.ndarray]]:
+    """Yield (time values, channel values [n_channels, rows]) per chunk, in file order."""
+    delim = ord(delimiter)
+    buf = bytearray(PAD + 2 * chunk_bytes + 1)
+    view = memoryview(buf)
+    kept = 0  # bytes of an unfinished line carried over, at buf[PAD:PAD + kept]
+    done = header_bytes
+    with open(path, "rb") as f:
+        f.seek(header_bytes)
+        while True:
+            if len(buf) < PAD + kept + chunk_bytes + 1:  # a line longer than a chunk
+                bigger = bytearray(PAD + 2 * (kept + chunk_bytes) + 1)
+                bigger[PAD : PAD + kept] = buf[PAD : PAD + kept]
+                buf, view = bigger, memoryview(bigger)
+            got = f.readinto(view[PAD + kept : PAD + kept + chunk_bytes])
+            done += got
+            end = PAD + kept + got
+            if got == 0:
+                if kept:
+                    buf[end] = 10  # a last line without a newline
+                    yield from _chunk(buf, kept + 1, n_channels, delim, integer_time)
+                if progress is not None:
+                    progress(done)
+                return
+            cut = buf.rfind(b"\n", PAD, end) + 1
+            if cut == 0:
+                kept += got
+                continue
+            yield from _chunk(buf, cut - PAD, n_channels, delim, integer_time)
+            kept = end - cut
+            buf[PAD : PAD + kept] = buf[cut:end]
+            if progress is not None:
+                progress(done)
