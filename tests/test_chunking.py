@@ -3,6 +3,8 @@ fast path gives exactly what the general (pyarrow) reader gives, errors included
 
 from __future__ import annotations
 
+import itertools
+
 import numpy as np
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
@@ -27,7 +29,7 @@ def leg_levels(draw: st.DrawFn, n: int) -> tuple[np.ndarray, np.ndarray]:
     low = np.zeros(n, dtype=np.int8)
     state = draw(st.integers(0, 2))  # 0: low on, 1: high on, 2: both off
     bounds = [0, *edges, n]
-    for a, b in zip(bounds[:-1], bounds[1:], strict=True):
+    for a, b in itertools.pairwise(bounds):
         high[a:b] = state == 1
         low[a:b] = state == 0
         state = draw(st.sampled_from([s for s in (0, 1, 2, 3) if s != state]))
@@ -152,10 +154,8 @@ def test_findings_identical_for_every_chunk_size(tmp_path, n, data, chunk, dead_
     cols = [c for leg in legs for c in leg]
     step = 10
     csv_path = tmp_path / "cap.csv"
-    rows = [
-        ",".join([str(i * step), *(str(int(c[i])) for c in cols)]) for i in range(n)
-    ]
-    csv_path.write_text("\n".join(["time_ns", *[]][:0] + [",".join(["time_ns", *names])] + rows) + "\n")
+    rows = [",".join([str(i * step), *(str(int(c[i])) for c in cols)]) for i in range(n)]
+    csv_path.write_text("\n".join([",".join(["time_ns", *names]), *rows]) + "\n")
     vcd_path = tmp_path / "cap.vcd"
     vcd_path.write_text(_vcd_text(names, cols, step))
     bridge = sc.Bridge((sc.Leg("A", "A_H", "A_L"), sc.Leg("B", "B_H", "B_L")))

@@ -15,6 +15,7 @@ mantissa is below 2**53 and k <= 22 (the fast path of Clinger's algorithm).
 
 from __future__ import annotations
 
+import itertools
 import re
 from collections.abc import Callable, Iterator, Sequence
 
@@ -28,7 +29,9 @@ _ZEROS = 0x3030303030303030
 _HI = np.uint64(0xF0F0F0F0F0F0F0F0)
 _SIX = np.uint64(0x0606060606060606)
 _M8, _M16, _M32 = (np.uint64(m) for m in (0x00FF00FF00FF00FF, 0x0000FFFF0000FFFF, 0xFFFFFFFF))
-_FLOAT = re.compile(r"^(?P<sign>s?)(?P<int>d*)(?:(?P<dot>\.)(?P<frac>d*))?(?:e(?P<esign>s?)(?P<exp>d+))?$")
+_FLOAT = re.compile(
+    r"^(?P<sign>s?)(?P<int>d*)(?:(?P<dot>\.)(?P<frac>d*))?(?:e(?P<esign>s?)(?P<exp>d+))?$"
+)
 _CLASS = {**{chr(c): "d" for c in range(48, 58)}, ".": ".", "e": "e", "E": "e", "+": "s", "-": "s"}
 _POW10 = np.array([10.0**i for i in range(23)])
 
@@ -104,9 +107,7 @@ def _signs(buf: bytes, start: int, n: int, stride: int, col: int) -> np.ndarray:
     return c == 45
 
 
-def _times(
-    buf: bytes, start: int, n: int, stride: int, width: int, integer: bool
-) -> np.ndarray:
+def _times(buf: bytes, start: int, n: int, stride: int, width: int, integer: bool) -> np.ndarray:
     """Time fields (columns ``[0, width)`` of each row) as float64, or int64 when ``integer``."""
     first = buf[start : start + width].decode("latin-1")
     pattern = "".join(_CLASS.get(ch, "?") for ch in first)
@@ -147,7 +148,9 @@ def _times(
         if int(np.abs(e10).max(initial=0)) > 22:
             raise Decline
         up = e10 >= 0
-        value = np.where(up, value * _POW10[np.where(up, e10, 0)], value / _POW10[np.where(up, 0, -e10)])
+        value = np.where(
+            up, value * _POW10[np.where(up, e10, 0)], value / _POW10[np.where(up, 0, -e10)]
+        )
     if negative is not None:
         np.negative(value, where=negative, out=value)
     return value
@@ -188,10 +191,7 @@ def _chunk(
 ) -> Iterator[tuple[np.ndarray, np.ndarray]]:
     """Split ``buf[PAD:PAD + size]`` (whole lines) into runs of equal row length, parse each."""
     stride = buf.find(b"\n", PAD) - PAD + 1
-    if (
-        size % stride == 0
-        and (_column(buf, PAD + stride - 1, size // stride, stride) == 10).all()
-    ):
+    if size % stride == 0 and (_column(buf, PAD + stride - 1, size // stride, stride) == 10).all():
         # every row ends where the first does; _run checks every other byte
         yield _run(buf, PAD, size // stride, stride, n_channels, delim, integer)
         return
@@ -202,7 +202,7 @@ def _chunk(
     if cuts.size >= _MAX_RUNS:
         raise Decline
     bounds = [0, *cuts.tolist(), lengths.size]
-    for a, b in zip(bounds[:-1], bounds[1:], strict=True):
+    for a, b in itertools.pairwise(bounds):
         offset = PAD + (int(ends[a - 1]) if a else 0)
         yield _run(buf, offset, b - a, int(lengths[a]), n_channels, delim, integer)
 
