@@ -6,12 +6,14 @@ import argparse
 import os
 import sys
 
-from ..api import check
+from ..api import check  # noqa: F401 - kept for code importing it from here
+from ..batch import check_many
 from ..legs import parse_leg
 from ..model import Bridge, DeadTime, Policy
 from ..reporters import REPORTERS, render
 from ..units import parse_duration
 from ._output import check_output_path, write_output
+from ._progress import progress_display
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
 
@@ -19,6 +21,7 @@ EXAMPLES = """examples:
   sequencecheck check capture.csv --leg A=AH,AL --leg B=BH,BL --dead-time 500ns
   sequencecheck check capture.csv --dead-time 1us --active-low AL,BL --format json
   sequencecheck check samples.csv --time-column sample --sample-rate 100e6 --dead-time 200ns
+  sequencecheck check night/*.csv night/*.vcd --dead-time 500ns --jobs 2
 
 exit status: 0 no violation, 1 at least one violation, 2 usage or input error.
 """
@@ -32,7 +35,7 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
         epilog=EXAMPLES,
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
-    p.add_argument("inputs", nargs="+", metavar="INPUT", help="CSV capture(s)")
+    p.add_argument("inputs", nargs="+", metavar="INPUT", help="CSV or VCD capture(s)")
     p.add_argument(
         "--leg",
         action="append",
@@ -65,8 +68,27 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     p.add_argument("--format", choices=sorted(REPORTERS), default="text", help="report format")
     p.add_argument("--output", metavar="FILE", help="write the report to FILE (default: stdout)")
     p.add_argument("--strict", action="store_true", help="warnings fail the run too")
+    p.add_argument(
+        "--jobs",
+        "-j",
+        metavar="N",
+        type=_positive_int,
+        default=None,
+        help="check up to N inputs at once in worker processes (default: one per core)",
+    )
+    p.add_argument("--quiet", action="store_true", help="no progress bars on stderr")
     p.set_defaults(func=run_check)
     return p
+
+
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"must be a whole number >= 1, not {text!r}")
+    return value
 
 
 def build_bridge(args: argparse.Namespace) -> Bridge:
@@ -104,7 +126,10 @@ def run_check(args: argparse.Namespace) -> int:
         "time_unit": args.time_unit,
         "sample_rate_hz": args.sample_rate,
     }
-    report = check(args.inputs, bridge, policy, **read_options)
+    with progress_display(len(args.inputs), quiet=args.quiet) as display:
+        report = check_many(
+            args.inputs, bridge, policy, jobs=args.jobs, progress=display, **read_options
+        )
     report = type(report)(report.inputs, _settings(args, policy))
     options = {}
     if args.format == "text":

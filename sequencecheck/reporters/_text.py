@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from ..findings import Certainty, DirectionStats, Finding, InputReport, Report
 from ..units import format_time
+from ._files import file_summary_lines
 
 __all__ = ["render_text"]
 
@@ -97,6 +98,8 @@ def render_text(report: Report, *, colour: bool = False) -> str:
     lines: list[str] = []
     for r in report.inputs:
         lines += _input_block(r, paint)
+    if len(report.inputs) > 1:
+        lines += file_summary_lines(report)
     violations = report.violations
     by_rule = ", ".join(f"{k} {v}" for k, v in sorted(report.by_rule().items()))
     n_in = len(report.inputs)
