@@ -103,4 +103,7 @@ def progress_display(n_inputs: int, *, quiet: bool, stream: Any = None) -> Any:
     stream = sys.stderr if stream is None else stream
     if quiet or not getattr(stream, "isatty", lambda: False)() or os.environ.get("TERM") == "dumb":
         return _Nothing()
-    return TerminalProgress(n_inputs, None if stream is sys.stderr else stream)
+    try:
+        return TerminalProgress(n_inputs, None if stream is sys.stderr else stream)
+    except ImportError:  # rich missing: checking matters more than the bars
+        return _Nothing()
