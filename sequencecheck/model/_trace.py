@@ -76,8 +76,21 @@ class Channel:
         times: np.ndarray,
         levels: np.ndarray,
         lines: np.ndarray | None = None,
+        *,
+        start_ps: int | None = None,
     ) -> Channel:
-        """Build a channel from raw, possibly redundant changes (see normalize_edges)."""
+        """Build a channel from raw, possibly redundant changes (see normalize_edges).
+
+        Changes at or before ``start_ps`` (rows at the window's first instant) fold
+        into the initial level instead of becoming edges.
+        """
+        times = np.asarray(times, dtype=np.int64)
+        levels = np.asarray(levels, dtype=np.int8)
+        if start_ps is not None and times.size and times[0] <= start_ps:
+            n = int(np.searchsorted(times, start_ps, side="right"))
+            initial = int(levels[n - 1])
+            times, levels = times[n:], levels[n:]
+            lines = None if lines is None else lines[n:]
         t, v, ln = normalize_edges(initial, times, levels, lines)
         return cls(name, int(initial), t, v, ln)
 

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import csv
 import io
+import math
 import os
 import re
 from collections.abc import Callable, Iterator, Sequence
@@ -138,6 +139,7 @@ def _arrow_batches(
         convert_options=pacsv.ConvertOptions(
             column_types=types,
             include_columns=[time_name, *columns],
+            null_values=[],
             strings_can_be_null=False,
             quoted_strings_can_be_null=False,
         ),
@@ -190,6 +192,7 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
     """Walk the file in pure Python to name the first bad row, after the fast path failed."""
     idx = [layout.names.index(c) for c in columns]
     time_name = layout.names[layout.time_index]
+    last_ps: int | None = None
     with open(path, newline="", encoding="utf-8-sig", errors="replace") as f:
         reader = csv.reader(f, delimiter=layout.delimiter)
         next(reader, None)
@@ -206,13 +209,28 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
             try:
                 if layout.ps_per_tick is None:
                     int(t)
-                else:
-                    float(t)
+                elif not math.isfinite(float(t)):
+                    return InputError(
+                        f"column {time_name!r}: expected a finite time, found {t!r}",
+                        path=path,
+                        line=line,
+                    )
             except ValueError:
                 kind = "a sample index" if layout.ps_per_tick is None else "a number"
                 return InputError(
                     f"column {time_name!r}: expected {kind}, found {t!r}", path=path, line=line
                 )
+            if layout.ps_per_tick is None:
+                t_ps = int(t) * (layout.sample_period_ps or 0)
+            else:
+                t_ps = int(np.rint(float(t) * layout.ps_per_tick))
+            if last_ps is not None and t_ps < last_ps:  # as the batch check words it
+                return InputError(
+                    f"time goes backwards (column {time_name!r}); expected non-decreasing time",
+                    path=path,
+                    line=line,
+                )
+            last_ps = t_ps
             for i, name in zip(idx, columns, strict=True):
                 v = row[i].strip()
                 if v not in ("0", "1"):
@@ -245,7 +263,7 @@ class _EdgeCollector:
             self.lines.append(idx.astype(np.int64) + first_line)
         self.last = int(values[-1])
 
-    def channel(self, name: str) -> Channel:
+    def channel(self, name: str, start_ps: int) -> Channel:
         def cat(parts: list[np.ndarray], dtype: type) -> np.ndarray:
             return np.concatenate(parts) if parts else np.empty(0, dtype=dtype)
 
@@ -255,6 +273,7 @@ class _EdgeCollector:
             cat(self.times, np.int64),
             cat(self.levels, np.int8),
             cat(self.lines, np.int64),
+            start_ps=start_ps,
         )
 
 
@@ -406,7 +425,7 @@ def _assemble(
         period = max_step  # uniformly spaced rows are samples
     end = last_t + (period or 0)
     return Trace(
-        channels={name: c.channel(name) for name, c in collectors.items()},
+        channels={name: c.channel(name, first_t) for name, c in collectors.items()},
         start_ps=first_t,
         end_ps=end,
         path=path,

@@ -108,5 +108,8 @@ def render_text(report: Report, *, colour: bool = False) -> str:
     else:
         verdict = paint(_GREEN, "no violations")
     failed = f"; {len(report.errors)} input(s) could not be checked" if report.errors else ""
+    n_warn = sum(len(r.warnings) for r in report.inputs)
+    if n_warn:
+        failed += "; " + paint(_YELLOW, f"{n_warn} warning(s)")
     lines.append(f"{verdict} in {n_in} input(s){failed}")
     return "\n".join(lines) + "\n"

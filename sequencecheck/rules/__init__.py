@@ -8,6 +8,7 @@ from ..findings import InputReport, LegStats
 from ..model import Bridge, Policy, Trace
 from ._base import CheckContext, Rule, RuleResult
 from .conduction import DEAD_TIME, SHOOT_THROUGH
+from .sanity import SHORT_CAPTURE, STUCK_CHANNEL, TWIN_CHANNELS
 
 __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 
@@ -15,6 +16,9 @@ __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 RULES: tuple[Rule, ...] = (
     SHOOT_THROUGH,
     DEAD_TIME,
+    STUCK_CHANNEL,
+    TWIN_CHANNELS,
+    SHORT_CAPTURE,
 )
 
 

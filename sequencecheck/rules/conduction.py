@@ -42,16 +42,18 @@ def handovers(turning_on: Intervals, turning_off: Intervals, direction: Directio
     """
     idx, on_t = turning_on.edge_starts()
     _, off_t = turning_off.edge_ends()
+    if on_t.size == 0 or off_t.size == 0:
+        empty = np.empty(0, dtype=np.int64)
+        return Handovers(direction, empty, empty, empty, empty)
     j = np.searchsorted(off_t, on_t, side="right") - 1  # latest complement turn-off <= on
     k = np.searchsorted(turning_off.starts, on_t, side="right") - 1  # complement interval
-    if turning_off.ends.size:
-        complement_on = (k >= 0) & (turning_off.ends[np.maximum(k, 0)] > on_t)
-    else:  # the complement never conducted in the window
-        complement_on = np.zeros(on_t.size, dtype=bool)
+    kk = np.maximum(k, 0)
+    still_running = turning_off.clipped_end & (kk == len(turning_off) - 1)
+    complement_on = (k >= 0) & ((turning_off.ends[kk] > on_t) | still_running)
     prev_own_off = np.where(
         idx > 0, turning_on.ends[np.maximum(idx - 1, 0)], np.iinfo(np.int64).min
     )
-    off_at = off_t[np.maximum(j, 0)] if off_t.size else np.zeros_like(on_t)
+    off_at = off_t[np.maximum(j, 0)]
     valid = (j >= 0) & ~complement_on & (off_at >= prev_own_off)
     jv = j[valid]
     return Handovers(
