@@ -137,12 +137,18 @@ class VcdBody:
         ch_slot = slot[c_idx]
         counts = np.bincount(ch_slot + 1)[1:] if c_idx.size else np.zeros(0, np.int64)
         if counts.any():
-            t_of_change = table[np.cumsum(is_time)[c_idx]]
-            level = _VALUE_LUT[head[c_idx]].astype(np.int8)
-            lines = c_idx.astype(np.int64) + first_line
+            # group the changes by channel slot (a stable radix sort), then slice
+            keys = ch_slot.astype(np.int16) if counts.size < 2**15 else ch_slot
+            order = np.argsort(keys, kind="stable")
+            order = order[c_idx.size - int(counts.sum()) :]  # drop unwanted ids (slot -1)
+            picked = c_idx[order]
+            t_of_change = table[np.cumsum(is_time)[picked]]
+            level = _VALUE_LUT[head[picked]].astype(np.int8)
+            lines = picked.astype(np.int64) + first_line
+            bounds = np.concatenate(([0], np.cumsum(counts)))
             for s in np.flatnonzero(counts).tolist():
-                m = ch_slot == s
-                self._store(s, t_of_change[m], level[m], lines[m])
+                a, b = int(bounds[s]), int(bounds[s + 1])
+                self._store(s, t_of_change[a:b], level[a:b], lines[a:b])
         return int(nl[n - 1]) + 1, n
 
     def _check_times(self, ticks: np.ndarray, lines: np.ndarray) -> None:
