@@ -39,8 +39,14 @@ def _peak_mb() -> float:
     return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
 
 
+def _cpu() -> float:
+    r = resource.getrusage(resource.RUSAGE_SELF)
+    return r.ru_utime + r.ru_stime
+
+
 def main() -> None:
     mode, path, *rest = sys.argv[1:]
+    cpu0 = 0.0  # the check counts the whole process, imports included
     sys.path.insert(0, str(ROOT))
     if mode == "check":
         from sequencecheck.cli import run
@@ -52,6 +58,7 @@ def main() -> None:
         extra = {"exit": status}
     else:
         extra = {}
+        cpu0 = _cpu()
         if mode == "pyarrow":
             import pyarrow as pa
             import pyarrow.csv as pacsv
@@ -93,6 +100,7 @@ def main() -> None:
         else:
             raise SystemExit(f"unknown mode {mode}")
     seconds = time.perf_counter() - start
+    extra["cpu_seconds"] = _cpu() - cpu0
     peak = _peak_mb()
     print(json.dumps({"seconds": seconds, "peak_mb": peak, **extra}))
 
