@@ -58,7 +58,6 @@ def main() -> None:
         extra = {"exit": status}
     else:
         extra = {}
-        cpu0 = _cpu()
         if mode == "pyarrow":
             import pyarrow as pa
             import pyarrow.csv as pacsv
@@ -67,24 +66,24 @@ def main() -> None:
                 header = f.readline().strip().split(",")
             types = {n: pa.int8() for n in header}
             types[header[0]] = pa.float64()
-            start = time.perf_counter()
+            start, cpu0 = time.perf_counter(), _cpu()
             table = pacsv.read_csv(path, convert_options=pacsv.ConvertOptions(column_types=types))
             extra["rows"] = table.num_rows
         elif mode == "fromfile":
             import numpy as np
 
-            start = time.perf_counter()
+            start, cpu0 = time.perf_counter(), _cpu()
             extra["bytes"] = int(np.fromfile(path, dtype=np.uint8).size)
         elif mode in ("read-csv", "read-vcd"):
             from sequencecheck.readers import read
 
-            start = time.perf_counter()
+            start, cpu0 = time.perf_counter(), _cpu()
             extra["edges"] = read(path).edge_count
         elif mode in ("pywellen", "pywellen-arrays"):
             import numpy as np
             import pywellen
 
-            start = time.perf_counter()
+            start, cpu0 = time.perf_counter(), _cpu()
             wave = pywellen.Waveform(path)
             n = 0
             for var in wave.all_vars():
