@@ -40,10 +40,14 @@ class TerminalProgress:
             auto_refresh=False,
             transient=True,
         )
-        self._overall = self._progress.add_task(f"0/{n_inputs} inputs", total=n_inputs)
+        # the batch bar counts bytes of all inputs, so its rate and time left mean something
+        self._overall = self._progress.add_task(f"0/{n_inputs} inputs", total=0)
         self._n = n_inputs
         self._finished = 0
+        self._total = 0
         self._sizes: dict[str, int] = {}
+        self._read: dict[str, int] = {}
+        self._read_before = 0  # bytes of inputs already finished
         self._tasks: dict[str, Any] = {}
         self._last = 0.0
 
@@ -64,6 +68,8 @@ class TerminalProgress:
 
     def start(self, path: str, total_bytes: int) -> None:
         self._sizes[path] = total_bytes
+        self._total += total_bytes
+        self._progress.update(self._overall, total=self._total)
 
     def advance(self, path: str, done_bytes: int) -> None:
         if path not in self._sizes:
@@ -74,17 +80,20 @@ class TerminalProgress:
             task = self._progress.add_task(name[-40:], total=self._sizes[path] or None)
             self._tasks[path] = task
         self._progress.update(task, completed=done_bytes)
+        self._read[path] = done_bytes
+        self._progress.update(self._overall, completed=self._read_before + sum(self._read.values()))
         self._redraw()
 
     def done(self, path: str) -> None:
-        self._sizes.pop(path, None)
+        self._read_before += self._sizes.pop(path, 0)
+        self._read.pop(path, None)
         task = self._tasks.pop(path, None)
         if task is not None:
             self._progress.remove_task(task)
         self._finished += 1
         self._progress.update(
             self._overall,
-            completed=self._finished,
+            completed=self._read_before + sum(self._read.values()),
             description=f"{self._finished}/{self._n} inputs",
         )
         self._redraw(force=True)
