@@ -58,7 +58,7 @@ class VcdBody:
 
     # -- lookup tables for the fast path ---------------------------------------------------
     def _one_char_lut(self) -> np.ndarray:
-        lut = np.full(256, _UNDECLARED, dtype=np.int64)
+        lut = np.full(256, _UNDECLARED, dtype=np.int32)
         for code, var in self.declared.items():
             if len(code) != 1:
                 continue
@@ -110,7 +110,10 @@ class VcdBody:
         head = buf[starts]  # the newline itself for an empty line
         is_time = (head == 35) & (length >= 2) & (length <= _MAX_TICK_DIGITS + 1)
         is_change = (length == 2) & (_VALUE_LUT[head] < 4)
-        slot = self._id_lut[buf[np.minimum(starts + 1, buf.size - 1)]]
+        second = starts + 1
+        if second[-1] >= buf.size:  # an empty last line
+            second[-1] = buf.size - 1
+        slot = self._id_lut[buf[second]]
         ok = is_time | (is_change & (slot > _GENERAL)) | (length == 0)
         t_idx = np.flatnonzero(is_time)
         ticks, bad_tick = _parse_ticks(buf, starts[t_idx] + 1, ends[t_idx])
@@ -142,7 +145,7 @@ class VcdBody:
             order = np.argsort(keys, kind="stable")
             order = order[c_idx.size - int(counts.sum()) :]  # drop unwanted ids (slot -1)
             picked = c_idx[order]
-            t_of_change = table[np.cumsum(is_time)[picked]]
+            t_of_change = table[np.cumsum(is_time, dtype=np.int32)[picked]]
             level = _VALUE_LUT[head[picked]].astype(np.int8)
             lines = picked.astype(np.int64) + first_line
             bounds = np.concatenate(([0], np.cumsum(counts)))
@@ -313,7 +316,8 @@ class VcdBody:
             )
 
 
-_ZEROS = np.uint64(0x3030303030303030)
+_ZEROS_INT = 0x3030303030303030
+_ZEROS = np.uint64(_ZEROS_INT)
 _HI_NIBBLES = np.uint64(0xF0F0F0F0F0F0F0F0)
 _SIX = np.uint64(0x0606060606060606)
 _M8, _M16, _M32 = (np.uint64(m) for m in (0x00FF00FF00FF00FF, 0x0000FFFF0000FFFF, 0xFFFFFFFF))
@@ -326,10 +330,12 @@ def _parse_ticks(
 
     Returns the values and the index of the first row that is not all digits
     (its value and later ones are meaningless), or None when all are numbers.
+    Rows are taken in groups of equal length, so every mask is a constant.
     """
     n = starts.size
+    out = np.zeros(n, dtype=np.int64)
     if n == 0:
-        return np.empty(0, dtype=np.int64), None
+        return out, None
     pad = 8 * ((_MAX_TICK_DIGITS + 7) // 8)
     padded = np.empty(buf.size + pad, dtype=np.uint8)
     padded[:pad] = 48
@@ -337,22 +343,48 @@ def _parse_ticks(
     words_at = np.ndarray(
         shape=(padded.size - 7,), dtype="<u8", buffer=padded.data, offset=0, strides=(1,)
     )  # the 8 bytes starting at every byte offset, as little-endian integers
-    length = ends - starts
-    out = np.zeros(n, dtype=np.uint64)
-    bad = np.zeros(n, dtype=bool)
-    for w in range((int(length.max()) + 7) // 8):
-        pos = ends + pad - 8 * (w + 1)
-        word = words_at[pos]
-        keep = np.clip(length - 8 * w, 0, 8).astype(np.uint64)
-        junk_bits = (np.uint64(8) - keep) * np.uint64(8)
-        low = (np.uint64(1) << np.minimum(junk_bits, np.uint64(63))) - np.uint64(1)
-        low[keep == 0] = np.uint64(0xFFFFFFFFFFFFFFFF)
-        word = (word & ~low) | (_ZEROS & low)
-        bad |= ((word & _HI_NIBBLES) != _ZEROS) | (((word + _SIX) & _HI_NIBBLES) != _ZEROS)
-        v = word - _ZEROS
-        v = (v * np.uint64(10) + (v >> np.uint64(8))) & _M8
-        v = (v * np.uint64(100) + (v >> np.uint64(16))) & _M16
-        v = (v * np.uint64(10000) + (v >> np.uint64(32))) & _M32
-        out += v * np.uint64(10 ** (8 * w))
-    first_bad = int(np.argmax(bad)) if bad.any() else None
-    return out.view(np.int64), first_bad
+    lengths = ends - starts
+    first_bad: int | None = None
+    counts = np.bincount(lengths)
+    for length in np.flatnonzero(counts).tolist():
+        rows = None if counts[length] == n else np.flatnonzero(lengths == length)
+        at = (ends if rows is None else ends[rows]) + pad
+        value = np.zeros(at.size, dtype=np.uint64)
+        bad = np.zeros(at.size, dtype=bool) if length else np.ones(at.size, dtype=bool)
+        for w in range((length + 7) // 8):
+            keep = min(8, length - 8 * w)
+            junk = (1 << (8 * (8 - keep))) - 1  # low bytes: before the digits
+            word = words_at[at - 8 * (w + 1)]
+            if junk:
+                word &= np.uint64(~junk & 0xFFFFFFFFFFFFFFFF)
+                word |= np.uint64(_ZEROS_INT & junk)
+            nib = word & _HI_NIBBLES
+            bad |= nib != _ZEROS
+            np.add(word, _SIX, out=nib)
+            nib &= _HI_NIBBLES
+            bad |= nib != _ZEROS
+            word -= _ZEROS
+            np.right_shift(word, np.uint64(8), out=nib)
+            word *= np.uint64(10)
+            word += nib
+            word &= _M8
+            np.right_shift(word, np.uint64(16), out=nib)
+            word *= np.uint64(100)
+            word += nib
+            word &= _M16
+            np.right_shift(word, np.uint64(32), out=nib)
+            word *= np.uint64(10000)
+            word += nib
+            word &= _M32
+            if w:
+                word *= np.uint64(10 ** (8 * w))
+            value += word
+        if rows is None:
+            out = value.view(np.int64)
+        else:
+            out[rows] = value.view(np.int64)
+        if bad.any():
+            i = int(np.argmax(bad))
+            i = i if rows is None else int(rows[i])
+            first_bad = i if first_bad is None else min(first_bad, i)
+    return out, first_bad
