@@ -19,7 +19,7 @@ grows with the changes of the selected channels, not with the file.
 from __future__ import annotations
 
 import os
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from typing import Any
 
 import numpy as np
@@ -31,12 +31,11 @@ from ._vcd_header import read_header, select
 
 __all__ = ["DEFAULT_CHUNK_BYTES", "read_vcd"]
 
-DEFAULT_CHUNK_BYTES = 4 << 20
+DEFAULT_CHUNK_BYTES = 1 << 20
 
 
-def _chunks(path: str, offset: int, chunk_bytes: int):
-    """Yield (bytes of whole lines, number of newlines before them, bytes read so far)."""
-    newlines = 0
+def _chunks(path: str, offset: int, chunk_bytes: int) -> Iterator[tuple[bytes, int]]:
+    """Yield (bytes of whole lines, bytes read so far); the last piece may lack a newline."""
     rest = b""
     with open(path, "rb") as f:
         f.seek(offset)
@@ -46,7 +45,7 @@ def _chunks(path: str, offset: int, chunk_bytes: int):
             done += len(block)
             if not block:
                 if rest:
-                    yield rest, newlines, done
+                    yield rest, done
                 return
             data = rest + block
             cut = data.rfind(b"\n") + 1
@@ -54,8 +53,7 @@ def _chunks(path: str, offset: int, chunk_bytes: int):
                 rest = data
                 continue
             rest = data[cut:]
-            yield data[:cut], newlines, done
-            newlines += data.count(b"\n", 0, cut)
+            yield data[:cut], done
 
 
 def read_vcd(
@@ -79,13 +77,12 @@ def read_vcd(
     head = read_header(path)
     selects = select(head, channels, path)
     body = VcdBody(path, head, selects)
-    last_line = head.body_line
-    for data, newlines, done in _chunks(path, head.body_offset, chunk_bytes):
-        body.feed(data, head.body_line + newlines)
-        last_line = head.body_line + newlines + data.count(b"\n")
+    line = head.body_line
+    for data, done in _chunks(path, head.body_offset, chunk_bytes):
+        line = body.feed(data, line)
         if progress is not None:
             progress(done)
-    body.finish(last_line)
+    body.finish(line)
     start_tick = body.first_time if body.first_time is not None else 0
     end_tick = max(body.time, start_tick)
     num, den = body.num, body.den

@@ -70,8 +70,9 @@ class VcdBody:
         return lut
 
     # -- chunks ------------------------------------------------------------------------------
-    def feed(self, data: bytes, first_line: int) -> None:
-        """Consume ``data`` (whole lines) whose first line is number ``first_line``.
+    def feed(self, data: bytes, first_line: int) -> int:
+        """Consume ``data`` (whole lines) whose first line is number ``first_line``;
+        return the number of the line after them.
 
         Runs of plain lines go through the numpy fast path; from the first line it
         cannot take, the general parser runs until no section or value is open.
@@ -88,6 +89,7 @@ class VcdBody:
             used, lines = self._general(data, pos, line, min_lines=1 if taken >= 64 else 4096)
             pos += used
             line += lines
+        return line
 
     def _store(self, slot: int, t: np.ndarray, v: np.ndarray, ln: np.ndarray) -> None:
         self.times[slot].append(t)
