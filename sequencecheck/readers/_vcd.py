@@ -89,10 +89,7 @@ def read_vcd(
     out: dict[str, Channel] = {}
     built: dict[int, tuple[int, np.ndarray, np.ndarray, np.ndarray]] = {}
     for slot in range(len(body.times)):
-        t = _cat(body.times[slot], np.int64)
-        v = _cat(body.levels[slot], np.int8)
-        ln = _cat(body.lines[slot], np.int64)
-        body.times[slot] = body.levels[slot] = body.lines[slot] = []  # free the pieces
+        t, v, ln = body.times[slot].view(), body.levels[slot].view(), body.lines[slot].view()
         if t.size and t[0] < start_tick:  # values given before the first timestamp
             t[: np.searchsorted(t, start_tick)] = start_tick
         k = int(np.searchsorted(t, start_tick, side="right"))
@@ -120,12 +117,6 @@ def read_vcd(
             "variables": [v.full_name for v in head.variables],
         },
     )
-
-
-def _cat(parts: list[np.ndarray], dtype: type) -> np.ndarray:
-    if not parts:
-        return np.empty(0, dtype=dtype)
-    return np.concatenate(parts) if len(parts) > 1 else parts[0].copy()
 
 
 def _check_not_empty(path: str) -> None:

@@ -16,7 +16,7 @@ from ..errors import InputError
 from ..model import Level
 from ._vcd_header import BitSelect, VcdHeader
 
-__all__ = ["VcdBody"]
+__all__ = ["GrowingArray", "VcdBody"]
 
 _LEVEL = {"0": Level.LOW, "1": Level.HIGH, "x": Level.X, "z": Level.Z}
 _VALUE_LUT = np.full(256, 255, dtype=np.uint8)
@@ -25,6 +25,32 @@ for _c, _v in (("0", 0), ("1", 1), ("x", 2), ("X", 2), ("z", 3), ("Z", 3)):
 _DUMP_SECTIONS = {"$dumpvars", "$dumpon", "$dumpoff", "$dumpall"}
 _UNDECLARED, _GENERAL, _UNWANTED = -3, -2, -1
 _MAX_TICK_DIGITS = 18
+
+
+class GrowingArray:
+    """An append-only array that doubles its capacity: one block per channel and field,
+    so memory is the edges themselves (the unused tail is never touched, so never
+    resident) instead of thousands of small pieces the allocator keeps after a join."""
+
+    def __init__(self, dtype: type) -> None:
+        self._data = np.empty(0, dtype=dtype)
+        self.size = 0
+
+    def extend(self, values: np.ndarray) -> None:
+        end = self.size + values.size
+        if end > self._data.size:
+            bigger = np.empty(max(end, 2 * self._data.size, 1 << 12), dtype=self._data.dtype)
+            bigger[: self.size] = self._data[: self.size]
+            self._data = bigger
+        self._data[self.size : end] = values
+        self.size = end
+
+    def view(self) -> np.ndarray:
+        return self._data[: self.size]
+
+    def release(self) -> None:
+        self._data = self._data[:0]
+        self.size = 0
 
 
 class VcdBody:
@@ -44,9 +70,9 @@ class VcdBody:
         for (code, offset), slot in self.slot_of.items():
             self.slots_by_code.setdefault(code, []).append((slot, offset))
         n = len(self.slot_of)
-        self.times: list[list[np.ndarray]] = [[] for _ in range(n)]
-        self.levels: list[list[np.ndarray]] = [[] for _ in range(n)]
-        self.lines: list[list[np.ndarray]] = [[] for _ in range(n)]
+        self.times = [GrowingArray(np.int64) for _ in range(n)]
+        self.levels = [GrowingArray(np.int8) for _ in range(n)]
+        self.lines = [GrowingArray(np.int64) for _ in range(n)]
         self.time = -1  # current time in ticks; -1 before the first timestamp
         self.first_time: int | None = None
         self.changes = 0
@@ -92,9 +118,9 @@ class VcdBody:
         return line
 
     def _store(self, slot: int, t: np.ndarray, v: np.ndarray, ln: np.ndarray) -> None:
-        self.times[slot].append(t)
-        self.levels[slot].append(v)
-        self.lines[slot].append(ln)
+        self.times[slot].extend(t)
+        self.levels[slot].extend(v)
+        self.lines[slot].extend(ln)
 
     def _fast(self, data: bytes, pos: int, first_line: int) -> tuple[int, int]:
         """Take the leading plain lines of ``data[pos:]``; return (bytes, lines) taken."""
