@@ -5,7 +5,7 @@
 MODE is ``check`` (the whole ``sequencecheck check`` command, imports included),
 ``read-csv``/``read-vcd`` (our reader alone), ``pyarrow`` (``pyarrow.csv.read_csv``
 with column types declared, the call alone), ``fromfile`` (the raw bytes with
-numpy), ``pywellen`` (pywellen's Rust parse of every signal, no export) or
+numpy, as one array), ``rawread`` (the raw bytes in 1 MiB blocks into one buffer), ``pywellen`` (pywellen's Rust parse of every signal, no export) or
 ``pywellen-arrays`` (the same, then every signal's change times as numpy arrays).
 """
 
@@ -69,6 +69,14 @@ def main() -> None:
             start, cpu0 = time.perf_counter(), _cpu()
             table = pacsv.read_csv(path, convert_options=pacsv.ConvertOptions(column_types=types))
             extra["rows"] = table.num_rows
+        elif mode == "rawread":
+            start, cpu0 = time.perf_counter(), _cpu()
+            block = bytearray(1 << 20)
+            n = 0
+            with open(path, "rb", buffering=0) as f:
+                while got := f.readinto(block):
+                    n += got
+            extra["bytes"] = n
         elif mode == "fromfile":
             import numpy as np
 
