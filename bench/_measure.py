@@ -69,6 +69,17 @@ def main() -> None:
             start, cpu0 = time.perf_counter(), _cpu()
             table = pacsv.read_csv(path, convert_options=pacsv.ConvertOptions(column_types=types))
             extra["rows"] = table.num_rows
+        elif mode == "check-many":  # PATH is a folder; rest: jobs
+            import glob
+
+            import sequencecheck as sc
+            from sequencecheck.batch import check_many
+
+            files = sorted(glob.glob(str(Path(path) / "*.csv")))
+            policy = sc.Policy(dead_time=sc.DeadTime.both(500_000))
+            start, cpu0 = time.perf_counter(), _cpu()
+            report = check_many(files, None, policy, jobs=int(rest[0]))
+            extra["exit"] = report.exit_status()
         elif mode == "rawread":
             start, cpu0 = time.perf_counter(), _cpu()
             block = bytearray(1 << 20)
