@@ -3,8 +3,8 @@
 Logic-analyzer exports write every row in the same layout: a time field, then one
 ``,0``/``,1`` per channel. A run of rows of equal length is then a 2-D byte array,
 and every field sits at a fixed column: channels are read as strided byte
-columns, and the time field eight digits at a time (SWAR: SIMD within a register)
-from strided 64-bit words. Every byte of every row is checked against the layout
+columns, and the time field eight digits at a time (``_swar``) from strided
+64-bit words. Every byte of every row is checked against the layout
 of the run's first row; anything else raises :class:`Decline` and the general
 (pyarrow) reader takes the file, so errors and odd shapes behave exactly as there.
 
@@ -21,14 +21,12 @@ from collections.abc import Callable, Iterator, Sequence
 
 import numpy as np
 
+from ._swar import eight_digits
+
 __all__ = ["PAD", "Decline", "raw_batches", "takes_layout"]
 
 PAD = 16  # bytes in front of each chunk so that 8-byte words never start before it
 _MAX_RUNS = 64  # more distinct row lengths in one chunk than this: not a fixed layout
-_ZEROS = 0x3030303030303030
-_HI = np.uint64(0xF0F0F0F0F0F0F0F0)
-_SIX = np.uint64(0x0606060606060606)
-_M8, _M16, _M32 = (np.uint64(m) for m in (0x00FF00FF00FF00FF, 0x0000FFFF0000FFFF, 0xFFFFFFFF))
 _FLOAT = re.compile(
     r"^(?P<sign>s?)(?P<int>d*)(?:(?P<dot>\.)(?P<frac>d*))?(?:e(?P<esign>s?)(?P<exp>d+))?$"
 )
@@ -67,33 +65,10 @@ def _digits(buf: bytes, start: int, n: int, stride: int, lo: int, hi: int) -> np
         return out
     out = np.zeros(n, dtype=np.uint64)
     for w in range((hi - lo + 7) // 8):
-        keep = min(8, hi - lo - 8 * w)
-        junk = (1 << (8 * (8 - keep))) - 1  # low bytes: before the run
-        word = _words(buf, start + hi - 8 * (w + 1), n, stride)
-        if junk:
-            word = (word & np.uint64(~junk & 0xFFFFFFFFFFFFFFFF)) | np.uint64(_ZEROS & junk)
-        else:
-            word = word.copy()  # contiguous from here on
-        hi_nib = word & _HI
-        bad = hi_nib != np.uint64(_ZEROS)
-        np.add(word, _SIX, out=hi_nib)
-        hi_nib &= _HI
-        bad |= hi_nib != np.uint64(_ZEROS)
+        word = _words(buf, start + hi - 8 * (w + 1), n, stride).copy()
+        word, bad = eight_digits(word, min(8, hi - lo - 8 * w))
         if bad.any():
             raise Decline
-        word -= np.uint64(_ZEROS)
-        np.right_shift(word, np.uint64(8), out=hi_nib)
-        word *= np.uint64(10)
-        word += hi_nib
-        word &= _M8
-        np.right_shift(word, np.uint64(16), out=hi_nib)
-        word *= np.uint64(100)
-        word += hi_nib
-        word &= _M16
-        np.right_shift(word, np.uint64(32), out=hi_nib)
-        word *= np.uint64(10000)
-        word += hi_nib
-        word &= _M32
         if w:
             word *= np.uint64(10 ** (8 * w))
         out += word

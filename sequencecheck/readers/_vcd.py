@@ -86,7 +86,6 @@ def read_vcd(
     start_tick = body.first_time if body.first_time is not None else 0
     end_tick = max(body.time, start_tick)
     num, den = body.num, body.den
-    out: dict[str, Channel] = {}
     built: dict[int, tuple[int, np.ndarray, np.ndarray, np.ndarray]] = {}
     for slot in range(len(body.times)):
         t, v, ln = body.times[slot].view(), body.levels[slot].view(), body.lines[slot].view()

@@ -14,6 +14,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..model import Level
+from ._swar import eight_digits
 from ._vcd_header import BitSelect, VcdHeader
 
 __all__ = ["GrowingArray", "VcdBody"]
@@ -344,13 +345,6 @@ class VcdBody:
             )
 
 
-_ZEROS_INT = 0x3030303030303030
-_ZEROS = np.uint64(_ZEROS_INT)
-_HI_NIBBLES = np.uint64(0xF0F0F0F0F0F0F0F0)
-_SIX = np.uint64(0x0606060606060606)
-_M8, _M16, _M32 = (np.uint64(m) for m in (0x00FF00FF00FF00FF, 0x0000FFFF0000FFFF, 0xFFFFFFFF))
-
-
 def _parse_ticks(
     buf: np.ndarray, starts: np.ndarray, ends: np.ndarray
 ) -> tuple[np.ndarray, int | None]:
@@ -380,30 +374,8 @@ def _parse_ticks(
         value = np.zeros(at.size, dtype=np.uint64)
         bad = np.zeros(at.size, dtype=bool) if length else np.ones(at.size, dtype=bool)
         for w in range((length + 7) // 8):
-            keep = min(8, length - 8 * w)
-            junk = (1 << (8 * (8 - keep))) - 1  # low bytes: before the digits
-            word = words_at[at - 8 * (w + 1)]
-            if junk:
-                word &= np.uint64(~junk & 0xFFFFFFFFFFFFFFFF)
-                word |= np.uint64(_ZEROS_INT & junk)
-            nib = word & _HI_NIBBLES
-            bad |= nib != _ZEROS
-            np.add(word, _SIX, out=nib)
-            nib &= _HI_NIBBLES
-            bad |= nib != _ZEROS
-            word -= _ZEROS
-            np.right_shift(word, np.uint64(8), out=nib)
-            word *= np.uint64(10)
-            word += nib
-            word &= _M8
-            np.right_shift(word, np.uint64(16), out=nib)
-            word *= np.uint64(100)
-            word += nib
-            word &= _M16
-            np.right_shift(word, np.uint64(32), out=nib)
-            word *= np.uint64(10000)
-            word += nib
-            word &= _M32
+            word, not_digit = eight_digits(words_at[at - 8 * (w + 1)], min(8, length - 8 * w))
+            bad |= not_digit
             if w:
                 word *= np.uint64(10 ** (8 * w))
             value += word
