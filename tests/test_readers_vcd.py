@@ -206,3 +206,15 @@ def test_pywellen_agrees_on_a_generated_capture(tmp_path):
                 level = v
         assert ours.initial == theirs[0][1]
         assert list(zip(ours.times.tolist(), ours.levels.tolist(), strict=True)) == edges
+
+
+def test_many_tokens_on_one_line_in_tiny_chunks(vcd):
+    """Tokens need only whitespace between them; chunks are then cut between tokens."""
+    one = vcd('#0 0! 1" b0 # #5 1! b101 # #9 0! #12 x! #20 bx1 #\n')
+    for chunk in (1, 3, 7, 1 << 20):
+        tr = read_vcd(one, channels=["top.driver.ha", "bus[0]", "bus[2]"], chunk_bytes=chunk)
+        ha = tr.channel("top.driver.ha")
+        assert (ha.times.tolist(), ha.levels.tolist()) == ([5000, 9000, 12000], [1, 0, Level.X])
+        assert ha.lines.tolist() == [15, 15, 15]
+        assert tr.channel("bus[0]").times.tolist() == [5000]
+        assert tr.channel("bus[2]").levels.tolist() == [1, Level.X]

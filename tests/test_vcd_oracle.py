@@ -68,6 +68,9 @@ def vcd_files(draw: st.DrawFn) -> bytes:
         lines = [
             ln.replace("x", "X").replace("z", "Z") if not ln.startswith("$") else ln for ln in lines
         ]
+    if draw(st.booleans()):  # tokens need only whitespace between them, not newlines
+        joined = draw(st.integers(body, max(body, len(lines) - 1)))
+        lines = [*lines[:joined], " ".join(lines[joined:])]
     newline = draw(st.sampled_from(["\n", "\r\n"]))
     return newline.join(lines).encode()
 

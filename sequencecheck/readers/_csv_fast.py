@@ -18,6 +18,7 @@ from __future__ import annotations
 import itertools
 import re
 from collections.abc import Callable, Iterator, Sequence
+from typing import BinaryIO
 
 import numpy as np
 
@@ -182,6 +183,33 @@ def _chunk(
         yield _run(buf, offset, b - a, int(lengths[a]), n_channels, delim, integer)
 
 
+def _pieces(f: BinaryIO, chunk_bytes: int) -> Iterator[tuple[bytearray, int, int]]:
+    """Yield (buffer, size, bytes read) per piece of whole lines at ``buffer[PAD:PAD + size]``.
+
+    Each piece gets a buffer of its own (PAD bytes in front, one spare at the end).
+    """
+    rest = b""
+    done = 0
+    while True:
+        want = max(chunk_bytes, len(rest))  # a line longer than a chunk: read twice as much
+        buf = bytearray(PAD + len(rest) + want + 1)
+        buf[PAD : PAD + len(rest)] = rest
+        got = f.readinto(memoryview(buf)[PAD + len(rest) : PAD + len(rest) + want])
+        done += got
+        end = PAD + len(rest) + got
+        if got == 0:
+            if rest:
+                buf[end] = 10  # a last line without a newline
+                yield buf, len(rest) + 1, done
+            return
+        cut = buf.rfind(b"\n", PAD, end) + 1
+        if cut == 0:
+            rest = bytes(buf[PAD:end])  # a line longer than a chunk: read on
+            continue
+        rest = bytes(buf[cut:end])
+        yield buf, cut - PAD, done
+
+
 def raw_batches(
     path: str,
     header_bytes: int,
@@ -191,35 +219,11 @@ def raw_batches(
     chunk_bytes: int,
     progress: Callable[[int], None] | None = None,
 ) -> Iterator[tuple[np.ndarray, np.ndarray]]:
-    """Yield (time values, channel values [n_channels, rows]) per chunk, in file order."""
+    """Yield (time values, channel values [n_channels, rows]) per run of rows, in file order."""
     delim = ord(delimiter)
-    buf = bytearray(PAD + 2 * chunk_bytes + 1)
-    view = memoryview(buf)
-    kept = 0  # bytes of an unfinished line carried over, at buf[PAD:PAD + kept]
-    done = header_bytes
     with open(path, "rb") as f:
         f.seek(header_bytes)
-        while True:
-            if len(buf) < PAD + kept + chunk_bytes + 1:  # a line longer than a chunk
-                bigger = bytearray(PAD + 2 * (kept + chunk_bytes) + 1)
-                bigger[PAD : PAD + kept] = buf[PAD : PAD + kept]
-                buf, view = bigger, memoryview(bigger)
-            got = f.readinto(view[PAD + kept : PAD + kept + chunk_bytes])
-            done += got
-            end = PAD + kept + got
-            if got == 0:
-                if kept:
-                    buf[end] = 10  # a last line without a newline
-                    yield from _chunk(buf, kept + 1, n_channels, delim, integer_time)
-                if progress is not None:
-                    progress(done)
-                return
-            cut = buf.rfind(b"\n", PAD, end) + 1
-            if cut == 0:
-                kept += got
-                continue
-            yield from _chunk(buf, cut - PAD, n_channels, delim, integer_time)
-            kept = end - cut
-            buf[PAD : PAD + kept] = buf[cut:end]
+        for buf, size, done in _pieces(f, chunk_bytes):
+            yield from _chunk(buf, size, n_channels, delim, integer_time)
             if progress is not None:
-                progress(done)
+                progress(header_bytes + done)

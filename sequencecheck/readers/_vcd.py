@@ -35,7 +35,8 @@ DEFAULT_CHUNK_BYTES = 1 << 20
 
 
 def _chunks(path: str, offset: int, chunk_bytes: int) -> Iterator[tuple[bytes, int]]:
-    """Yield (bytes of whole lines, bytes read so far); the last piece may lack a newline."""
+    """Yield (bytes, bytes read so far) cut after a newline, or between tokens when a
+    line is longer than a chunk; no token is ever split."""
     rest = b""
     with open(path, "rb") as f:
         f.seek(offset)
@@ -49,6 +50,8 @@ def _chunks(path: str, offset: int, chunk_bytes: int) -> Iterator[tuple[bytes, i
                 return
             data = rest + block
             cut = data.rfind(b"\n") + 1
+            if cut == 0:  # no newline: cut between tokens (VCD may put many on a line)
+                cut = max(data.rfind(b" "), data.rfind(b"\t")) + 1
             if cut == 0:
                 rest = data
                 continue

@@ -227,8 +227,9 @@ class VcdBody:
             end = size if j < 0 else j + 1
             for tok in data[i:end].decode("latin-1").split():
                 self._token(tok, first_line + n, out)
-            n += 1
             i = end
+            if j >= 0:  # a piece may end inside a line (between tokens): same line next time
+                n += 1
             if n >= min_lines and self.section is None and self.pending is None:
                 break
         for s, (t, v, lines) in out.items():
