@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import inspect
 import os
+import signal
 from collections.abc import Callable, Sequence
 from queue import Empty
 from typing import Any, Protocol
@@ -74,6 +75,7 @@ _QUEUE: Any = None
 def _init_worker(queue: Any) -> None:
     global _QUEUE
     _QUEUE = queue
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C is the parent's to handle
 
 
 def _job(path: str, bridge: Bridge | None, policy: Policy | None, options: dict) -> InputReport:
@@ -144,14 +146,23 @@ def _pool(
             if progress is not None:
                 progress.start(p, _size(p))
         pending = set(futures)
-        while pending:
-            finished, pending = wait(pending, timeout=0.1, return_when=FIRST_COMPLETED)
-            _drain(queue, progress)
-            for f in finished:
-                i = futures[f]
-                results[i] = f.result()
-                if progress is not None:
-                    progress.done(paths[i])
+        try:
+            while pending:
+                finished, pending = wait(pending, timeout=0.1, return_when=FIRST_COMPLETED)
+                _drain(queue, progress)
+                for f in finished:
+                    i = futures[f]
+                    results[i] = f.result()
+                    if progress is not None:
+                        progress.done(paths[i])
+        except BaseException:  # Ctrl-C or a bug: stop the workers, start nothing more
+            workers = list((getattr(pool, "_processes", None) or {}).values())
+            pool.shutdown(wait=False, cancel_futures=True)
+            if hasattr(signal, "SIGPIPE"):  # pipes to stopped workers break as we leave
+                signal.signal(signal.SIGPIPE, signal.SIG_IGN)
+            for process in workers:
+                process.terminate()  # a worker may be deep in a multi-gigabyte file
+            raise
     return [r for r in results if r is not None]
 
 

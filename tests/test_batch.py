@@ -127,3 +127,32 @@ def test_cli_rejects_bad_jobs():
     r = run_cli("check", str(SAMPLES / "cart_clean.csv"), "--jobs", "0")
     assert r.returncode == 2
     assert "--jobs" in r.stderr and "Traceback" not in r.stderr
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="needs named pipes")
+def test_ctrl_c_stops_the_workers(tmp_path):
+    """Workers stuck on inputs that never arrive (named pipes) end at once on Ctrl-C."""
+    import signal
+    import subprocess
+    import sys
+    import time
+
+    from conftest import ROOT
+
+    stuck = []
+    for name in ("a.csv", "b.csv"):
+        os.mkfifo(tmp_path / name)
+        stuck.append(str(tmp_path / name))
+    p = subprocess.Popen(
+        [sys.executable, "-m", "sequencecheck", "check", *stuck, "--jobs", "2", "--quiet"],
+        env=dict(os.environ, PYTHONPATH=str(ROOT)),
+        stdout=subprocess.DEVNULL,
+        stderr=subprocess.PIPE,
+        text=True,
+        start_new_session=True,
+    )
+    time.sleep(1.5)
+    os.killpg(p.pid, signal.SIGINT)  # as a terminal's Ctrl-C: the whole (own) process group
+    _, err = p.communicate(timeout=30)
+    assert p.returncode == 130
+    assert err == "sequencecheck: interrupted\n"
