@@ -13,6 +13,9 @@ __version__ = "0.1.0"
 # api
 from .api import check, check_file, check_trace
 
+# batch
+from .batch import check_many
+
 # errors
 from .errors import InputError, SequenceCheckError, UsageError
 
@@ -24,6 +27,7 @@ from .model import Bridge, Channel, DeadTime, Direction, Leg, Level, Policy, Sou
 
 # readers
 from .readers import read, read_csv
+from .readers import read_vcd
 
 # rules
 from .rules import RULES, run
@@ -55,10 +59,12 @@ __all__ = [
     "__version__",
     "check",
     "check_file",
+    "check_many",
     "check_trace",
     "format_time",
     "parse_duration",
     "read",
     "read_csv",
+    "read_vcd",
     "run",
 ]
