@@ -26,8 +26,7 @@ from .findings import Certainty, Finding, InputReport, LegStats, Report, Severit
 from .model import Bridge, Channel, DeadTime, Direction, Leg, Level, Policy, Source, Trace
 
 # readers
-from .readers import read, read_csv
-from .readers import read_vcd
+from .readers import read, read_csv, read_vcd
 
 # rules
 from .rules import RULES, run
