@@ -22,8 +22,15 @@ from .errors import InputError, SequenceCheckError, UsageError
 # findings
 from .findings import Certainty, Finding, InputReport, LegStats, Report, Severity, WorstMargin
 
+# language
+from .language import load_bridge, read_table
+
 # model
 from .model import Bridge, Channel, DeadTime, Direction, Leg, Level, Policy, Source, Trace
+from .model._physics import BootstrapSupply, SwitchTiming
+
+# physics
+from .physics import BootstrapLimits
 
 # readers
 from .readers import read, read_csv, read_vcd
@@ -36,6 +43,8 @@ from .units import format_time, parse_duration
 
 __all__ = [
     "RULES",
+    "BootstrapLimits",
+    "BootstrapSupply",
     "Bridge",
     "Certainty",
     "Channel",
@@ -52,6 +61,7 @@ __all__ = [
     "SequenceCheckError",
     "Severity",
     "Source",
+    "SwitchTiming",
     "Trace",
     "UsageError",
     "WorstMargin",
@@ -61,9 +71,11 @@ __all__ = [
     "check_many",
     "check_trace",
     "format_time",
+    "load_bridge",
     "parse_duration",
     "read",
     "read_csv",
+    "read_table",
     "read_vcd",
     "run",
 ]

@@ -36,6 +36,12 @@ def check_file(
     path = os.fspath(path)
     channels = list(bridge.channels) if bridge is not None and bridge.legs else None
     trace = read(path, channels=channels, **read_options)
+    own_bridge = trace.meta.get("bridge")
+    if isinstance(own_bridge, Bridge):  # a table brings its bridge; flags given still win
+        from .language import overlay_policy
+
+        bridge = own_bridge
+        policy = overlay_policy(trace.meta.get("policy"), policy)  # type: ignore[arg-type]
     if bridge is None or not bridge.legs:
         legs = legs_or_guess((), list(trace.channels), path)
         bridge = Bridge(legs) if bridge is None else replace(bridge, legs=legs)

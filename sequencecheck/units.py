@@ -9,7 +9,7 @@
 from __future__ import annotations
 
 import re
-from decimal import Decimal, InvalidOperation
+from decimal import Context, Decimal, Inexact, InvalidOperation, Overflow, Underflow, localcontext
 
 from .errors import UsageError
 
@@ -34,6 +34,7 @@ PS_PER_UNIT: dict[str, int] = {
     "s": 1_000_000_000_000,
 }
 _UNITS = {k: v for k, v in PS_PER_UNIT.items() if v}
+_EXACT = Context(prec=64, traps=[InvalidOperation, Overflow, Underflow, Inexact])
 _DURATION = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([a-zµμ]*)\s*$")
 
 
@@ -64,10 +65,12 @@ def parse_duration(text: str, *, what: str = "duration", allow_negative: bool = 
             f"{what} must be a duration such as 500ns or 1.5us, not {text!r} (unknown unit {unit!r})"
         )
     try:
-        value = Decimal(number) * _UNITS[unit]
-    except InvalidOperation:  # pragma: no cover - the regex admits only numbers
-        raise UsageError(f"{what} is not a number: {text!r}") from None
-    if value != value.to_integral_value():
+        with localcontext(_EXACT):
+            value = Decimal(number) * _UNITS[unit]
+            exact = value == value.to_integral_value()
+    except ArithmeticError:  # overflow or underflow on absurd exponents
+        raise UsageError(f"{what} {text!r} is out of range") from None
+    if not exact:
         raise UsageError(f"{what} {text!r} is finer than the tool's 1 ps resolution")
     ps = int(value)
     if ps < 0 and not allow_negative:

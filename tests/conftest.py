@@ -12,6 +12,10 @@ import pytest
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = ROOT / "samples"
 
+# pytester runs pytest in temporary projects; the plugin is also loaded by its entry point
+# once the project is installed (same name, so it is registered once)
+pytest_plugins = ["pytester", "sequencecheck.testing.pytest_plugin"]
+
 
 def run_cli(*args: str, cwd: Path | None = None) -> subprocess.CompletedProcess[str]:
     """Run ``python -m sequencecheck`` in a subprocess with this checkout on the path."""

@@ -20,9 +20,11 @@ def test_parse_duration(text, ps):
     assert parse_duration(text) == ps
 
 
-@pytest.mark.parametrize("text", ["5OOns", "500", "1.5 parsecs", "0.5ps", "-3ns", ""])
+@pytest.mark.parametrize(
+    "text", ["5OOns", "500", "1.5 parsecs", "0.5ps", "-3ns", "", "1e9000000ps", "1e-9000000s"]
+)
 def test_parse_duration_rejects(text):
-    with pytest.raises(UsageError, match=r"duration|unit|resolution|negative"):
+    with pytest.raises(UsageError, match=r"duration|unit|resolution|negative|range"):
         parse_duration(text)
 
 

@@ -12,12 +12,12 @@ from collections.abc import Sequence
 
 from .. import __version__
 from ..errors import SequenceCheckError
-from . import _check
+from . import _bootstrap, _check, _deadtime, _plot
 
 __all__ = ["build_parser", "main", "run"]
 
 #: Subcommand modules, in the order ``--help`` lists them.
-COMMANDS = (_check,)
+COMMANDS = (_check, _plot, _deadtime, _bootstrap)
 
 EXIT_OK, EXIT_VIOLATION, EXIT_ERROR = 0, 1, 2
 

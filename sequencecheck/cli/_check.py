@@ -12,8 +12,12 @@ from ..legs import parse_leg
 from ..model import Bridge, DeadTime, Policy
 from ..reporters import REPORTERS, render
 from ..units import parse_duration
+from ._bridge_file import add_bridge_argument, apply_bridge_file
+from ._modes_options import add_mode_options, apply_mode_options, mode_settings, states_view
 from ._output import check_output_path, write_output
 from ._progress import progress_display
+from ._physics_flags import add_physics_arguments, apply_physics_arguments, physics_settings
+from ._pictures import add_picture_options, check_plots_dir, draw_pictures
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
 
@@ -22,6 +26,9 @@ EXAMPLES = """examples:
   sequencecheck check capture.csv --dead-time 1us --active-low AL,BL --format json
   sequencecheck check samples.csv --time-column sample --sample-rate 100e6 --dead-time 200ns
   sequencecheck check night/*.csv night/*.vcd --dead-time 500ns --jobs 2
+  sequencecheck check capture.csv --min-pulse 100ns --reversal-dwell 2ms --states
+  sequencecheck check reversal.steps            (a table brings its bridge and limits)
+  sequencecheck check capture.csv --bridge drive.bridge --dead-time 1us
 
 exit status: 0 no violation, 1 at least one violation, 2 usage or input error.
 """
@@ -77,6 +84,12 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
         help="check up to N inputs at once in worker processes (default: one per core)",
     )
     p.add_argument("--quiet", action="store_true", help="no progress bars on stderr")
+    add_picture_options(p)
+    add_mode_options(p)
+
+    add_physics_arguments(p)
+
+    add_bridge_argument(p)
     p.set_defaults(func=run_check)
     return p
 
@@ -114,13 +127,20 @@ def _settings(args: argparse.Namespace, policy: Policy) -> dict[str, object]:
         "dead_time_ps": None if policy.dead_time is None else policy.dead_time.high_to_low_ps,
         "legs": list(args.leg),
         "active_low": sorted(c for c in args.active_low.split(",") if c),
+        **physics_settings(args),
     }
 
 
 def run_check(args: argparse.Namespace) -> int:
     check_output_path(args.output)
+    check_plots_dir(args.plots)
     bridge = build_bridge(args)
     policy = build_policy(args)
+    policy = apply_mode_options(args, policy)
+
+    bridge, policy = apply_physics_arguments(args, bridge, policy)
+
+    bridge, policy = apply_bridge_file(args, bridge, policy)
     read_options = {
         "time_column": args.time_column,
         "time_unit": args.time_unit,
@@ -131,10 +151,14 @@ def run_check(args: argparse.Namespace) -> int:
             args.inputs, bridge, policy, jobs=args.jobs, progress=display, **read_options
         )
     report = type(report)(report.inputs, _settings(args, policy))
+    report = type(report)(
+        states_view(report.inputs, args.states), {**report.settings, **mode_settings(policy)}
+    )
     options = {}
     if args.format == "text":
         to_terminal = args.output in (None, "-") and sys.stdout.isatty()
         options["colour"] = to_terminal and "NO_COLOR" not in os.environ
+    options.update(draw_pictures(args, report, bridge, policy, read_options))
     write_output(render(report, args.format, **options), args.output)
     for r in report.errors:
         print(f"sequencecheck: error: {r.error}", file=sys.stderr)

@@ -92,9 +92,15 @@ class TransitionPolicy:
     ``min_dwell_in`` maps a state to the least time the bridge must stay in it
     once entered. ``scheme`` names the PWM scheme ("sign-magnitude" or
     "locked-anti-phase"), which decides what counts as a reversal.
+    ``handover_max_ps`` is the longest all-off gap of a leg between its two sides
+    that still counts as a hand-over, not as a state of its own (None: 5 us);
+    ``neutral_band_ppm`` is how near 50 % (in millionths of a period) a locked
+    anti-phase duty counts as neither direction.
     """
 
     rules: tuple[TransitionRule, ...] = ()
     min_dwell_in: Mapping[str, int] = field(default_factory=dict)
     scheme: str = "sign-magnitude"
     source: str | None = None
+    handover_max_ps: int | None = None
+    neutral_band_ppm: int = 20_000

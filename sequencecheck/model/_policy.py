@@ -34,6 +34,8 @@ class Policy:
     ``dead_time`` applies to every leg not named in ``dead_time_by_leg``.
     ``transitions`` is a TransitionPolicy (None: the default policy for the
     bridge's leg count); ``bootstrap`` holds bootstrap limits, if any.
+    ``effective_dead_time`` is the least gap between effective (physical)
+    conduction intervals; None means 0: the switches must never conduct together.
     """
 
     dead_time: DeadTime | None = None
@@ -44,6 +46,7 @@ class Policy:
     transitions: object | None = None
     bootstrap: object | None = None
     strict: bool = False
+    effective_dead_time: DeadTime | None = None
 
     def dead_time_for(self, leg: str) -> DeadTime | None:
         return self.dead_time_by_leg.get(leg, self.dead_time)

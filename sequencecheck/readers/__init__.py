@@ -10,6 +10,7 @@ from collections.abc import Callable
 from typing import Any
 
 from ..errors import InputError
+from ..language import BRIDGE_SUFFIX, TABLE_SUFFIX, read_table
 from ..model import Trace
 from ._csv import read_csv
 from ._vcd import read_vcd
@@ -22,6 +23,7 @@ READERS: dict[str, Callable[..., Trace]] = {
     ".txt": read_csv,
     ".tsv": read_csv,
     ".vcd": read_vcd,
+    TABLE_SUFFIX: read_table,  # the bridge language's timed switch-state tables
 }
 
 
@@ -29,6 +31,12 @@ def read(path: str, **options: Any) -> Trace:
     """Read any supported input into a Trace, chosen by suffix (CSV by default)."""
     suffix = os.path.splitext(os.fspath(path))[1].lower()
     reader = READERS.get(suffix, read_csv)
+    if suffix == BRIDGE_SUFFIX:
+        raise InputError(
+            "is a bridge description, not an input to check; pass it with --bridge "
+            "or include it from a table",
+            path=os.fspath(path),
+        )
     if not os.path.exists(path):
         raise InputError("no such file", path=os.fspath(path))
     return reader(path, **options)

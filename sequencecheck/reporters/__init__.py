@@ -5,7 +5,10 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from ..findings import Report
+from ._html import render_html
 from ._json import render_json
+from ._junit import render_junit
+from ._sarif import render_sarif
 from ._text import render_text
 
 __all__ = ["REPORTERS", "render"]
@@ -14,6 +17,9 @@ __all__ = ["REPORTERS", "render"]
 REPORTERS: dict[str, Callable[..., str]] = {
     "text": render_text,
     "json": render_json,
+    "junit": render_junit,
+    "sarif": render_sarif,
+    "html": render_html,
 }
 
 

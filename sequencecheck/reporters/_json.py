@@ -82,6 +82,9 @@ def input_record(r: InputReport) -> dict[str, Any]:
                 "at_s": ps_to_seconds(m.at_ps),
                 "measured_s": ps_to_seconds(m.measured_ps),
                 "required_s": ps_to_seconds(m.required_ps),
+                "at_ps": m.at_ps,
+                "measured_ps": m.measured_ps,
+                "required_ps": m.required_ps,
             }
             for m in r.margins
         ],

@@ -5,6 +5,7 @@ from __future__ import annotations
 from ..findings import Certainty, DirectionStats, Finding, InputReport, Report
 from ..units import format_time
 from ._files import file_summary_lines
+from ._states import states_lines
 
 __all__ = ["render_text"]
 
@@ -81,6 +82,8 @@ def _input_block(r: InputReport, paint: _Paint) -> list[str]:
                 for m in r.margins
             )
         )
+    if isinstance(r.extra.get("caution"), str):  # set by rules that judge hardware
+        lines.append(paint(_YELLOW, f"  {r.extra['caution']}"))
     not_proven = sum(d.not_proven for s in r.leg_stats for d in (s.high_to_low, s.low_to_high))
     if not_proven:
         lines.append(
@@ -89,6 +92,7 @@ def _input_block(r: InputReport, paint: _Paint) -> list[str]:
     if r.findings:
         lines.append("  findings:")
         lines += [_finding_line(f, paint) for f in r.findings]
+    lines += states_lines(r)
     lines.append("")
     return lines
 

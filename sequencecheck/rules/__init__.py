@@ -7,8 +7,13 @@ from collections.abc import Iterable
 from ..findings import InputReport, LegStats
 from ..model import Bridge, Policy, Trace
 from ._base import CheckContext, Rule, RuleResult
+from .bootstrap import BOOTSTRAP_REFRESH
 from .conduction import DEAD_TIME, SHOOT_THROUGH
+from .margins import DEAD_TIME_MARGIN
+from .modes import MODE_TRANSITION
+from .pulses import MIN_PULSE
 from .sanity import SHORT_CAPTURE, STUCK_CHANNEL, TWIN_CHANNELS
+from .unknown import UNKNOWN_STATE
 
 __all__ = ["RULES", "CheckContext", "Rule", "RuleResult", "rule_ids", "run"]
 
@@ -19,6 +24,12 @@ RULES: tuple[Rule, ...] = (
     STUCK_CHANNEL,
     TWIN_CHANNELS,
     SHORT_CAPTURE,
+    MODE_TRANSITION,
+    MIN_PULSE,
+    UNKNOWN_STATE,
+
+    DEAD_TIME_MARGIN,
+    BOOTSTRAP_REFRESH,
 )
 
 

@@ -8,11 +8,26 @@ import numpy as np
 
 from ..findings import Certainty, DirectionStats, Finding, LegStats, WorstMargin
 from ..model import DeadTime, Direction, Leg, Source
+from ..physics.cautions import CAUTION
 from ..units import format_time
 from ._base import CheckContext, Rule, RuleResult
+from ._effective import (
+    COMMANDED,
+    EFFECTIVE,
+    check_timing_channels,
+    effective_on,
+    leg_has_timing,
+)
 from ._intervals import Intervals, intersect
 
-__all__ = ["DEAD_TIME", "SHOOT_THROUGH", "Handovers", "handovers"]
+__all__ = [
+    "DEAD_TIME",
+    "SHOOT_THROUGH",
+    "Handovers",
+    "dead_time_robustness",
+    "handovers",
+    "leg_kinds",
+]
 
 
 @dataclass(frozen=True, slots=True)
@@ -69,10 +84,23 @@ def _src(path: str, *lines: int) -> tuple[Source, ...]:
     return tuple(Source(path, int(n)) for n in lines if n)
 
 
-def _leg_handovers(ctx: CheckContext, leg: Leg) -> tuple[Handovers, Handovers]:
-    key = ("handovers", leg.name)
+def leg_kinds(ctx: CheckContext, leg: Leg) -> tuple[str, ...]:
+    """Which conduction intervals to check on ``leg``: commanded, and effective when
+    either switch has a timing model."""
+    check_timing_channels(ctx)
+    return (COMMANDED, EFFECTIVE) if leg_has_timing(ctx.bridge, leg) else (COMMANDED,)
+
+
+def _on(ctx: CheckContext, channel: str, kind: str) -> Intervals:
+    return ctx.on(channel) if kind == COMMANDED else effective_on(ctx, channel)
+
+
+def _leg_handovers(
+    ctx: CheckContext, leg: Leg, kind: str = COMMANDED
+) -> tuple[Handovers, Handovers]:
+    key = ("handovers", leg.name) if kind == COMMANDED else ("handovers", leg.name, kind)
     if key not in ctx.cache:
-        high, low = ctx.on(leg.high), ctx.on(leg.low)
+        high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
         ctx.cache[key] = (
             handovers(low, high, Direction.HIGH_TO_LOW),
             handovers(high, low, Direction.LOW_TO_HIGH),
@@ -82,61 +110,71 @@ def _leg_handovers(ctx: CheckContext, leg: Leg) -> tuple[Handovers, Handovers]:
 
 def _check_shoot_through(ctx: CheckContext) -> RuleResult:
     result = RuleResult()
-    trace, ts = ctx.trace, ctx.trace.sample_period_ps
     for leg in ctx.bridge.legs:
-        high, low = ctx.on(leg.high), ctx.on(leg.low)
-        starts, ends, ih, il = intersect(high, low)
-        # the later turn-on opened the overlap, the earlier turn-off closed it
-        open_line = np.where(
-            high.starts[ih] >= low.starts[il], high.start_lines[ih], low.start_lines[il]
-        )
-        close_line = np.where(high.ends[ih] <= low.ends[il], high.end_lines[ih], low.end_lines[il])
-        for s, e, ol, cl in zip(
-            starts.tolist(), ends.tolist(), open_line.tolist(), close_line.tolist(), strict=True
-        ):
-            width = e - s
-            open_end = e == trace.end_ps and (high.clipped_end or low.clipped_end)
-            result.findings.append(
-                Finding(
-                    rule="shoot-through",
-                    leg=leg.name,
-                    channels=leg.channels,
-                    start_ps=s,
-                    end_ps=e,
-                    measured_ps=width,
-                    required_ps=0,
-                    input=trace.path,
-                    message=(
-                        f"leg {leg.name}: {leg.high} and {leg.low} both on for {format_time(width)}"
-                        + (" (still on when the capture ends)" if open_end else "")
-                    ),
-                    certainty=Certainty.PROVEN,
-                    bounds_ps=None if ts is None else (max(width - ts, 0), width + ts),
-                    sources=_src(trace.path, ol, cl),
-                    detail={"open_end": open_end},
-                    margin_ps=-width,
-                )
-            )
-        if starts.size:
-            worst = int(np.argmax(ends - starts))
-            width = int(ends[worst] - starts[worst])
-            result.margins.append(
-                WorstMargin("shoot-through", leg.name, -width, int(starts[worst]), width, 0)
+        for kind in leg_kinds(ctx, leg):
+            _shoot_through_leg(ctx, leg, kind, result)
+            if kind == EFFECTIVE:  # physical judgement: carry the caution
+                result.extra["caution"] = CAUTION
+    return result
+
+
+def _shoot_through_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResult) -> None:
+    trace, ts = ctx.trace, ctx.trace.sample_period_ps
+    high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
+    starts, ends, ih, il = intersect(high, low)
+    # the later turn-on opened the overlap, the earlier turn-off closed it
+    open_line = np.where(
+        high.starts[ih] >= low.starts[il], high.start_lines[ih], low.start_lines[il]
+    )
+    close_line = np.where(high.ends[ih] <= low.ends[il], high.end_lines[ih], low.end_lines[il])
+    effective = kind == EFFECTIVE
+    for s, e, ol, cl in zip(
+        starts.tolist(), ends.tolist(), open_line.tolist(), close_line.tolist(), strict=True
+    ):
+        width = e - s
+        open_end = e == trace.end_ps and (high.clipped_end or low.clipped_end)
+        if effective:
+            text = (
+                f"leg {leg.name}: {leg.high} and {leg.low} conduct together for "
+                f"{format_time(width)} with worst-case switch timing (effective)"
             )
         else:
-            gaps = [h.gap_ps for h in _leg_handovers(ctx, leg) if h.gap_ps.size]
-            if gaps:
-                at = [
-                    h.on_ps[int(np.argmin(h.gap_ps))]
-                    for h in _leg_handovers(ctx, leg)
-                    if h.gap_ps.size
-                ]
-                mins = [int(g.min()) for g in gaps]
-                i = int(np.argmin(mins))
-                result.margins.append(
-                    WorstMargin("shoot-through", leg.name, mins[i], int(at[i]), mins[i], 0)
-                )
-    return result
+            text = f"leg {leg.name}: {leg.high} and {leg.low} both on for {format_time(width)}"
+        result.findings.append(
+            Finding(
+                rule="shoot-through",
+                leg=leg.name,
+                channels=leg.channels,
+                start_ps=s,
+                end_ps=e,
+                measured_ps=width,
+                required_ps=0,
+                input=trace.path,
+                message=text + (" (still on when the capture ends)" if open_end else ""),
+                certainty=Certainty.PROVEN,
+                bounds_ps=None if ts is None else (max(width - ts, 0), width + ts),
+                sources=_src(trace.path, ol, cl),
+                detail={"open_end": open_end, "kind": EFFECTIVE}
+                if effective
+                else {"open_end": open_end},
+                margin_ps=-width,
+            )
+        )
+    if starts.size:
+        worst = int(np.argmax(ends - starts))
+        width = int(ends[worst] - starts[worst])
+        result.margins.append(
+            WorstMargin("shoot-through", leg.name, -width, int(starts[worst]), width, 0, kind)
+        )
+    else:
+        pairs = [h for h in _leg_handovers(ctx, leg, kind) if h.gap_ps.size]
+        if pairs:
+            at = [h.on_ps[int(np.argmin(h.gap_ps))] for h in pairs]
+            mins = [int(h.gap_ps.min()) for h in pairs]
+            i = int(np.argmin(mins))
+            result.margins.append(
+                WorstMargin("shoot-through", leg.name, mins[i], int(at[i]), mins[i], 0, kind)
+            )
 
 
 def _direction_stats(h: Handovers, required: int | None, ts: int | None) -> DirectionStats:
@@ -150,58 +188,118 @@ def _direction_stats(h: Handovers, required: int | None, ts: int | None) -> Dire
     return DirectionStats(int(gaps.size), int(gaps[i]), int(h.on_ps[i]), not_proven)
 
 
+def _required_dead_time(ctx: CheckContext, leg: Leg, kind: str) -> DeadTime | None:
+    """The commanded requirement, or for effective intervals the physical minimum gap
+    (``Policy.effective_dead_time``, default 0: the switches must never conduct together)."""
+    if kind == COMMANDED:
+        return ctx.policy.dead_time_for(leg.name)
+    return ctx.policy.effective_dead_time or DeadTime()
+
+
+def dead_time_robustness(
+    ctx: CheckContext, leg: Leg, kind: str, need: DeadTime
+) -> WorstMargin | None:
+    """Signed robustness of the dead-time formula on ``leg`` (Signal Temporal Logic).
+
+    ``G(HS -> G[0,T] not LS) and G(LS -> G[0,T] not HS)`` has the temporal
+    robustness ``min_k(g_k - T)`` over every hand-over gap g_k, where an overlap
+    of width w counts as the gap -w (its direction: the switch that turned on
+    while the other conducted). None when the leg has no hand-over or overlap.
+    """
+    key = ("dead-time-robustness", leg.name, kind, need)
+    if key in ctx.cache:
+        return ctx.cache[key]
+    worst: WorstMargin | None = None
+    for h in _leg_handovers(ctx, leg, kind):
+        if h.gap_ps.size == 0:
+            continue
+        required = need.for_direction(h.direction)
+        i = int(np.argmin(h.gap_ps))
+        gap = int(h.gap_ps[i])
+        if worst is None or gap - required < worst.margin_ps:
+            worst = WorstMargin(
+                "dead-time", leg.name, gap - required, int(h.on_ps[i]), gap, required, kind
+            )
+    high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
+    starts, ends, ih, il = intersect(high, low)
+    if starts.size:
+        widths = ends - starts
+        # the switch that turned on later turned on into a conducting complement
+        high_later = high.starts[ih] >= low.starts[il]
+        required = np.where(high_later, need.low_to_high_ps, need.high_to_low_ps)
+        margins = -widths - required
+        i = int(np.argmin(margins))
+        if worst is None or int(margins[i]) < worst.margin_ps:
+            worst = WorstMargin(
+                "dead-time",
+                leg.name,
+                int(margins[i]),
+                int(starts[i]),
+                -int(widths[i]),
+                int(required[i]),
+                kind,
+            )
+    ctx.cache[key] = worst
+    return worst
+
+
 def _check_dead_time(ctx: CheckContext) -> RuleResult:
     result = RuleResult()
-    trace, ts = ctx.trace, ctx.trace.sample_period_ps
     for leg in ctx.bridge.legs:
-        need: DeadTime | None = ctx.policy.dead_time_for(leg.name)
-        per_direction = _leg_handovers(ctx, leg)
-        stats = {}
-        worst: WorstMargin | None = None
-        for h in per_direction:
-            required = None if need is None else need.for_direction(h.direction)
-            stats[h.direction] = _direction_stats(h, required, ts)
-            if required is None or h.gap_ps.size == 0:
-                continue
-            gaps = h.gap_ps
-            i = int(np.argmin(gaps))
-            if worst is None or int(gaps[i]) - required < worst.margin_ps:
-                worst = WorstMargin(
-                    "dead-time",
-                    leg.name,
-                    int(gaps[i]) - required,
-                    int(h.on_ps[i]),
-                    int(gaps[i]),
-                    required,
+        for kind in leg_kinds(ctx, leg):
+            _dead_time_leg(ctx, leg, kind, result)
+    result.findings.sort(key=lambda f: (f.start_ps, f.end_ps))
+    return result
+
+
+def _dead_time_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResult) -> None:
+    trace, ts = ctx.trace, ctx.trace.sample_period_ps
+    need = _required_dead_time(ctx, leg, kind)
+    effective = kind == EFFECTIVE
+    stats = {}
+    for h in _leg_handovers(ctx, leg, kind):
+        required = None if need is None else need.for_direction(h.direction)
+        stats[h.direction] = _direction_stats(h, required, ts)
+        if required is None or h.gap_ps.size == 0:
+            continue
+        gaps = h.gap_ps
+        bad = np.flatnonzero(gaps < required)
+        off_ch, on_ch = (
+            (leg.high, leg.low) if h.direction is Direction.HIGH_TO_LOW else (leg.low, leg.high)
+        )
+        for n in bad.tolist():
+            off, on, gap = int(h.off_ps[n]), int(h.on_ps[n]), int(gaps[n])
+            proven = ts is None or gap + ts <= required
+            if effective:
+                text = (
+                    f"leg {leg.name}: {on_ch} conducts {format_time(gap)} after {off_ch} stops "
+                    f"with worst-case switch timing; needs {format_time(required)} (effective)"
                 )
-            bad = np.flatnonzero(gaps < required)
-            off_ch, on_ch = (
-                (leg.high, leg.low) if h.direction is Direction.HIGH_TO_LOW else (leg.low, leg.high)
+            else:
+                text = (
+                    f"leg {leg.name}: {on_ch} on {format_time(gap)} after {off_ch} off; "
+                    f"needs {format_time(required)}"
+                )
+            result.findings.append(
+                Finding(
+                    rule="dead-time",
+                    leg=leg.name,
+                    channels=(off_ch, on_ch),
+                    start_ps=off,
+                    end_ps=on,
+                    measured_ps=gap,
+                    required_ps=required,
+                    input=trace.path,
+                    message=text + ("" if proven else " (inconclusive at this sample rate)"),
+                    certainty=Certainty.PROVEN if proven else Certainty.INCONCLUSIVE,
+                    bounds_ps=None if ts is None else (gap - ts, gap + ts),
+                    sources=_src(trace.path, int(h.off_lines[n]), int(h.on_lines[n])),
+                    detail={"direction": str(h.direction), "kind": EFFECTIVE}
+                    if effective
+                    else {"direction": str(h.direction)},
+                )
             )
-            for n in bad.tolist():
-                off, on, gap = int(h.off_ps[n]), int(h.on_ps[n]), int(gaps[n])
-                proven = ts is None or gap + ts <= required
-                result.findings.append(
-                    Finding(
-                        rule="dead-time",
-                        leg=leg.name,
-                        channels=(off_ch, on_ch),
-                        start_ps=off,
-                        end_ps=on,
-                        measured_ps=gap,
-                        required_ps=required,
-                        input=trace.path,
-                        message=(
-                            f"leg {leg.name}: {on_ch} on {format_time(gap)} after {off_ch} off; "
-                            f"needs {format_time(required)}"
-                            + ("" if proven else " (inconclusive at this sample rate)")
-                        ),
-                        certainty=Certainty.PROVEN if proven else Certainty.INCONCLUSIVE,
-                        bounds_ps=None if ts is None else (gap - ts, gap + ts),
-                        sources=_src(trace.path, int(h.off_lines[n]), int(h.on_lines[n])),
-                        detail={"direction": str(h.direction)},
-                    )
-                )
+    if not effective:
         result.leg_stats.append(
             LegStats(
                 leg.name,
@@ -209,10 +307,10 @@ def _check_dead_time(ctx: CheckContext) -> RuleResult:
                 stats.get(Direction.LOW_TO_HIGH, DirectionStats()),
             )
         )
+    if need is not None:
+        worst = dead_time_robustness(ctx, leg, kind, need)
         if worst is not None:
             result.margins.append(worst)
-    result.findings.sort(key=lambda f: (f.start_ps, f.end_ps))
-    return result
 
 
 SHOOT_THROUGH = Rule(
