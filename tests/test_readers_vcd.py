@@ -218,3 +218,20 @@ def test_many_tokens_on_one_line_in_tiny_chunks(vcd):
         assert ha.lines.tolist() == [15, 15, 15]
         assert tr.channel("bus[0]").times.tolist() == [5000]
         assert tr.channel("bus[2]").levels.tolist() == [1, Level.X]
+
+
+def test_pump_inverter_sample():
+    """The VCD sample: x during reset and one dead-time fault on leg V, named by line."""
+    from conftest import SAMPLES
+
+    r = run_cli(
+        "check", str(SAMPLES / "pump_inverter.vcd"), "--dead-time", "500ns", "--format", "json"
+    )
+    assert r.returncode == 1, r.stderr
+    import json
+
+    doc = json.loads(r.stdout)
+    assert doc["summary"]["by_rule"]["dead-time"] == 1  # x during reset is another rule's
+    (dead,) = [v for v in doc["violations"] if v["rule"] == "dead-time"]
+    assert (dead["leg"], dead["measured_ps"]) == ("V", 80_000)
+    assert dead["sources"][-1]["line"] == 383
