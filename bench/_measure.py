@@ -3,7 +3,8 @@
     python bench/_measure.py MODE PATH [ARGS...]
 
 MODE is ``check`` (the whole ``sequencecheck check`` command, imports included),
-``read-csv``/``read-vcd`` (our reader alone), ``pyarrow`` (``pyarrow.csv.read_csv``
+``read-csv``/``read-vcd`` (our reader alone), ``read-vcd-general``
+(our VCD reader with its numpy fast path off: the plain Python line parser), ``pyarrow`` (``pyarrow.csv.read_csv``
 with column types declared, the call alone), ``fromfile`` (the raw bytes with
 numpy, as one array), ``rawread`` (the raw bytes in 1 MiB blocks into one buffer), ``pywellen`` (pywellen's Rust parse of every signal, no export) or
 ``pywellen-arrays`` (the same, then every signal's change times as numpy arrays).
@@ -93,8 +94,11 @@ def main() -> None:
 
             start, cpu0 = time.perf_counter(), _cpu()
             extra["bytes"] = int(np.fromfile(path, dtype=np.uint8).size)
-        elif mode in ("read-csv", "read-vcd"):
+        elif mode in ("read-csv", "read-vcd", "read-vcd-general"):
             from sequencecheck.readers import read
+            from sequencecheck.readers._vcd_body import VcdBody
+
+            VcdBody.fast_path = mode != "read-vcd-general"
 
             start, cpu0 = time.perf_counter(), _cpu()
             extra["edges"] = read(path).edge_count

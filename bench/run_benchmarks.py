@@ -110,6 +110,7 @@ def bench_vcd(repeat: int) -> None:
     runs = {
         "sequencecheck check (end to end)": ("check", path, *CHECK),
         "read_vcd (our reader alone)": ("read-vcd", path),
+        "read_vcd, plain Python path only": ("read-vcd-general", path),
         "pywellen parse only (Rust)": ("pywellen", path),
         "pywellen parse + numpy arrays": ("pywellen-arrays", path),
         "numpy.fromfile (raw bytes)": ("fromfile", path),

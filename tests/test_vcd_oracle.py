@@ -86,3 +86,23 @@ def test_reader_matches_pyvcd_tokenizer(tmp_path_factory, data: bytes, chunk: in
     for name, (initial, times, levels) in expected.items():
         ch = trace.channel(name)
         assert (ch.initial, ch.times.tolist(), ch.levels.tolist()) == (initial, times, levels), name
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(data=vcd_files(), chunk=st.integers(1, 200))
+def test_plain_python_path_matches_pyvcd_tokenizer(tmp_path_factory, data: bytes, chunk: int):
+    """The same comparison with the numpy fast path switched off."""
+    from sequencecheck.readers._vcd_body import VcdBody
+
+    path = tmp_path_factory.mktemp("vcd") / "gen.vcd"
+    path.write_bytes(data)
+    expected, start, end = oracle_channels(data)
+    VcdBody.fast_path = False
+    try:
+        trace = read_vcd(str(path), channels=list(expected), chunk_bytes=chunk)
+    finally:
+        VcdBody.fast_path = True
+    assert (trace.start_ps, trace.end_ps) == (start, end)
+    for name, (initial, times, levels) in expected.items():
+        ch = trace.channel(name)
+        assert (ch.initial, ch.times.tolist(), ch.levels.tolist()) == (initial, times, levels), name

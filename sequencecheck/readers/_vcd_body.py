@@ -20,6 +20,7 @@ from ._vcd_header import BitSelect, VcdHeader
 __all__ = ["GrowingArray", "VcdBody"]
 
 _LEVEL = {"0": Level.LOW, "1": Level.HIGH, "x": Level.X, "z": Level.Z}
+_SCALAR = {**{k: int(v) for k, v in _LEVEL.items()}, "X": int(Level.X), "Z": int(Level.Z)}
 _VALUE_LUT = np.full(256, 255, dtype=np.uint8)
 for _c, _v in (("0", 0), ("1", 1), ("x", 2), ("X", 2), ("z", 3), ("Z", 3)):
     _VALUE_LUT[ord(_c)] = _v
@@ -56,6 +57,9 @@ class GrowingArray:
 
 class VcdBody:
     """Accumulates the changes of the selected channels, in ticks, chunk after chunk."""
+
+    #: False sends every line through the general parser (for measurements and tests).
+    fast_path = True
 
     def __init__(self, path: str, head: VcdHeader, selects: Sequence[BitSelect]) -> None:
         self.path = path
@@ -107,7 +111,7 @@ class VcdBody:
         pos, line = 0, first_line
         while pos < len(data):
             taken = 0
-            if self.section is None and self.pending is None:
+            if self.fast_path and self.section is None and self.pending is None:
                 used, taken = self._fast(data, pos, line)
                 pos += used
                 line += taken
@@ -222,11 +226,29 @@ class VcdBody:
         and no section or value is open; return (bytes, lines) taken."""
         out: dict[int, tuple[list[int], list[int], list[int]]] = {}
         i, n, size = pos, 0, len(data)
+        declared, slots_by_code = self.declared, self.slots_by_code
         while i < size:
             j = data.find(b"\n", i)
             end = size if j < 0 else j + 1
+            ln = first_line + n
             for tok in data[i:end].decode("latin-1").split():
-                self._token(tok, first_line + n, out)
+                level = _SCALAR.get(tok[0])
+                code = tok[1:]
+                if (  # the commonest token, a 1-bit change outside any section: inline
+                    level is not None
+                    and code in declared
+                    and self.section is None
+                    and self.pending is None
+                    and declared[code].width == 1
+                ):
+                    self.changes += 1
+                    for slot, _ in slots_by_code.get(code, ()):
+                        t, v, lines = out.setdefault(slot, ([], [], []))
+                        t.append(self.time)
+                        v.append(level)
+                        lines.append(ln)
+                else:
+                    self._token(tok, ln, out)
             i = end
             if j >= 0:  # a piece may end inside a line (between tokens): same line next time
                 n += 1
