@@ -81,6 +81,24 @@ def main() -> None:
             start, cpu0 = time.perf_counter(), _cpu()
             report = check_many(files, None, policy, jobs=int(rest[0]))
             extra["exit"] = report.exit_status()
+        elif mode == "rules":  # where the time of a check goes, rule by rule
+            import sequencecheck as sc
+            from sequencecheck.legs import guess_legs
+            from sequencecheck.readers import read
+            from sequencecheck.rules import RULES
+            from sequencecheck.rules._base import CheckContext
+
+            trace = read(path)
+            ctx = CheckContext(
+                trace,
+                sc.Bridge(guess_legs(trace.channels)),
+                sc.Policy(dead_time=sc.DeadTime.both(500_000)),
+            )
+            start, cpu0 = time.perf_counter(), _cpu()
+            for rule in RULES:
+                t = time.perf_counter()
+                rule.check(ctx)
+                extra[rule.id] = time.perf_counter() - t
         elif mode == "rawread":
             start, cpu0 = time.perf_counter(), _cpu()
             block = bytearray(1 << 20)

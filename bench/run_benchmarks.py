@@ -122,6 +122,16 @@ def bench_vcd(repeat: int) -> None:
         f"VCD, 10,000,000 value changes, 6 signals, {mb:.0f} MB", res, "pywellen parse only (Rust)"
     )
     check = res["sequencecheck check (end to end)"]["seconds"]
+    rules = measure("rules", path)
+    slow = sorted(
+        ((k, v) for k, v in rules.items() if k not in ("seconds", "peak_mb", "cpu_seconds")),
+        key=lambda kv: -kv[1],
+    )[:4]
+    print(
+        "  rules on this trace: "
+        + ", ".join(f"{k} {v:.2f} s" for k, v in slow)
+        + f" (all rules {rules['seconds']:.2f} s, peak {rules['peak_mb']:.0f} MB)"
+    )
     check_cpu = res["sequencecheck check (end to end)"]["cpu"]
     for name in ("pywellen parse only (Rust)", "pywellen parse + numpy arrays"):
         print(
