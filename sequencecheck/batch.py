@@ -141,10 +141,11 @@ def _pool(
         jobs, mp_context=ctx, initializer=_init_worker, initargs=(queue,)
     ) as pool:
         futures: dict[Future[InputReport], int] = {}
-        for i, p in enumerate(paths):
-            futures[pool.submit(_job, p, bridge, policy, read_options)] = i
+        sizes = [_size(p) for p in paths]
+        for i in sorted(range(len(paths)), key=lambda i: -sizes[i]):  # biggest first
+            futures[pool.submit(_job, paths[i], bridge, policy, read_options)] = i
             if progress is not None:
-                progress.start(p, _size(p))
+                progress.start(paths[i], sizes[i])
         pending = set(futures)
         try:
             while pending:
