@@ -26,7 +26,25 @@ from .findings import Certainty, Finding, InputReport, LegStats, Report, Severit
 from .language import load_bridge, read_table
 
 # model
-from .model import Bridge, Channel, DeadTime, Direction, Leg, Level, Policy, Source, Trace
+from .model import (
+    All,
+    Any_,
+    Bridge,
+    Channel,
+    Const,
+    DeadTime,
+    Direction,
+    Leg,
+    Level,
+    Mode,
+    Not,
+    Policy,
+    Source,
+    SwitchOn,
+    Trace,
+    TransitionPolicy,
+    TransitionRule,
+)
 from .model._physics import BootstrapSupply, SwitchTiming
 
 # physics
@@ -43,11 +61,14 @@ from .units import format_time, parse_duration
 
 __all__ = [
     "RULES",
+    "All",
+    "Any_",
     "BootstrapLimits",
     "BootstrapSupply",
     "Bridge",
     "Certainty",
     "Channel",
+    "Const",
     "DeadTime",
     "Direction",
     "Finding",
@@ -56,13 +77,18 @@ __all__ = [
     "Leg",
     "LegStats",
     "Level",
+    "Mode",
+    "Not",
     "Policy",
     "Report",
     "SequenceCheckError",
     "Severity",
     "Source",
+    "SwitchOn",
     "SwitchTiming",
     "Trace",
+    "TransitionPolicy",
+    "TransitionRule",
     "UsageError",
     "WorstMargin",
     "__version__",

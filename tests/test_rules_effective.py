@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import re
 
 import numpy as np
 import pytest
@@ -201,7 +202,8 @@ def test_cli_reports_commanded_and_effective(write_csv):
     assert kinds[("dead-time", "commanded")] == 30_000
     assert kinds[("dead-time", "effective")] == -13_000
     text = run_here("check", path, "--dead-time", "50ns", "--switch-timing", TIMING_FLAG).stdout
-    assert "A shoot-through (effective) -13 ns" in text
+    # the margin table's row for leg A's shoot-through: commanded column, then effective
+    assert re.search(r"leg A +shoot-through +\S+ \S+ @ [^-]+ +-13 ns @ ", text), text
     assert "conduct together for 13 ns with worst-case switch timing (effective)" in text
     assert "datasheet review" in text and "injure and burn" in text  # a physical judgement
     assert "injure and burn" in doc["summary"]["inputs"][0]["caution"]

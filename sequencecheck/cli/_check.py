@@ -132,7 +132,7 @@ def _settings(args: argparse.Namespace, policy: Policy) -> dict[str, object]:
 
 
 def run_check(args: argparse.Namespace) -> int:
-    check_output_path(args.output)
+    check_output_path(args.output, args.inputs)
     check_plots_dir(args.plots)
     bridge = build_bridge(args)
     policy = build_policy(args)

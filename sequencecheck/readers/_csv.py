@@ -33,7 +33,8 @@ __all__ = ["CsvLayout", "read_csv", "sniff_layout"]
 _UNIT_IN_NAME = re.compile(
     r"(?:[\s_\-]*[\(\[]\s*|[_\-\s])(s|ms|us|µs|μs|ns|ps)\s*[\)\]]?\s*$", re.I
 )
-BLOCK_BYTES = 1 << 20
+BLOCK_BYTES = 4 << 20  # pyarrow's block: a row must fit in two
+CHUNK_BYTES = 1 << 20  # the raw-bytes path's chunk (small enough to stay in cache)
 
 
 @dataclass(frozen=True, slots=True)
@@ -116,7 +117,6 @@ def _arrow_batches(
     path: str,
     layout: CsvLayout,
     columns: Sequence[str],
-    block_bytes: int = BLOCK_BYTES,
     progress: Callable[[int], None] | None = None,
 ) -> Iterator[tuple[np.ndarray, list[np.ndarray]]]:
     """Yield (time column, channel columns) per pyarrow block, as numpy arrays."""
@@ -132,7 +132,7 @@ def _arrow_batches(
         read_options=pacsv.ReadOptions(
             column_names=list(layout.names),
             skip_rows=1,
-            block_size=max(block_bytes, 1 << 16),
+            block_size=BLOCK_BYTES,
             use_threads=True,
         ),
         parse_options=pacsv.ParseOptions(delimiter=layout.delimiter, ignore_empty_lines=False),
@@ -284,14 +284,15 @@ def read_csv(
     time_column: str | None = None,
     time_unit: str | None = None,
     sample_rate_hz: float | None = None,
-    chunk_bytes: int = BLOCK_BYTES,
+    chunk_bytes: int = CHUNK_BYTES,
     progress: Callable[[int], None] | None = None,
     fast_path: bool = True,
 ) -> Trace:
     """Read a CSV capture into a Trace of the named channels (default: every column).
 
     Memory is bounded by the number of edges: rows are parsed in chunks of about
-    ``chunk_bytes`` and only changes are kept. Rows in the common fixed layout
+    ``chunk_bytes`` (pyarrow's fallback in blocks of at least 4 MiB) and only
+    changes are kept. Rows in the common fixed layout
     (time first, then 0/1 channels) take a raw-bytes numpy path; any other shape
     goes through pyarrow. Raises InputError naming the row of any bad value;
     ``progress`` is called with the bytes read so far after each chunk;
@@ -312,6 +313,8 @@ def read_csv(
                 path=path,
                 line=1,
             )
+    if layout.header_bytes >= os.path.getsize(path):  # nothing after the header line
+        raise InputError("header only, expected rows of data after it", path=path, line=2)
     if fast_path and takes_layout(layout.names, layout.time_index, layout.delimiter):
         picks = [layout.names.index(name) - 1 for name in wanted]
         raw = raw_batches(
@@ -327,7 +330,7 @@ def read_csv(
             return _assemble(path, layout, wanted, ((t, v[picks]) for t, v in raw))
         except Decline:
             pass  # not the fixed layout after all: the general reader decides
-    batches = _arrow_batches(path, layout, wanted, chunk_bytes, progress)
+    batches = _arrow_batches(path, layout, wanted, progress)
     return _assemble(path, layout, wanted, batches)
 
 
@@ -393,7 +396,8 @@ def _assemble(
                 t = raw_t.astype(np.int64, copy=False) * np.int64(layout.sample_period_ps)
             else:
                 tf = raw_t
-                t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
+                with np.errstate(invalid="ignore", over="ignore"):  # nan/inf: named below
+                    t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
             problem = _first_problem(path, layout, wanted, first_line, tf, t, last_t, values)
             if problem is not None:
                 raise problem

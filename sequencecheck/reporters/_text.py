@@ -37,8 +37,24 @@ def _direction(d: DirectionStats) -> tuple[str, str]:
     return str(d.count), at
 
 
+#: What one unit of Trace.rows is called, per input kind.
+_ROW_NOUN = {"table": "lines", "vcd": "value changes", "recorder": "recorder calls"}
+
+
+def _where(f: Finding) -> str:
+    """``(path:22; also line 21)``: the input line to fix first (the latest edge), then
+    the lines of the other edges involved."""
+    located = [s for s in f.sources if s.line]
+    if not located:
+        return ""
+    main = located[-1]
+    others = [str(s.line) if s.path == main.path else str(s) for s in located[:-1] if s != main]
+    also = f"; also line {', '.join(others)}" if others else ""
+    return f"  ({main}{also})"
+
+
 def _finding_line(f: Finding, paint: _Paint) -> str:
-    where = f"  ({f.sources[-1]})" if f.sources and f.sources[-1].line else ""
+    where = _where(f)
     margin = "" if f.margin_ps is None else f"  margin {format_time(f.margin_ps)}"
     tag = "" if f.certainty is Certainty.PROVEN else "  [inconclusive at this sample rate]"
     colour = _RED if f.is_violation else _YELLOW
@@ -47,13 +63,28 @@ def _finding_line(f: Finding, paint: _Paint) -> str:
     )
 
 
+def _margin_table(r: InputReport) -> list[str]:
+    """Worst margin per leg and rule (signed: negative is violated), commanded and effective."""
+    cells: dict[tuple[str, str], dict[str, str]] = {}
+    for m in r.margins:
+        cells.setdefault((m.leg, m.rule), {})[m.kind] = (
+            f"{format_time(m.margin_ps)} @ {format_time(m.at_ps)}"
+        )
+    kinds = ["commanded", *sorted({m.kind for m in r.margins} - {"commanded"})]
+    rows = [["worst margin", "rule", *kinds]]
+    leg_order = {name: i for i, name in enumerate(r.legs)}
+    for (leg, rule), by_kind in sorted(cells.items(), key=lambda c: leg_order.get(c[0][0], 0)):
+        rows.append([f"leg {leg}", rule, *(by_kind.get(k, "-") for k in kinds)])
+    return _table(rows)
+
+
 def _input_block(r: InputReport, paint: _Paint) -> list[str]:
     if r.error is not None:
         return [paint(_BOLD, r.input), f"  {paint(_RED, 'not checked')}: {r.error}", ""]
     sampled = f", sample period {format_time(r.sample_period_ps)}" if r.sample_period_ps else ""
     lines = [
         paint(_BOLD, r.input),
-        f"  checked {r.rows:,} rows, {r.edges:,} edges, {format_time(r.start_ps)} to "
+        f"  checked {r.rows:,} {_ROW_NOUN.get(r.kind, 'rows')}, {r.edges:,} edges, {format_time(r.start_ps)} to "
         f"{format_time(r.end_ps)} ({r.kind}{sampled}); channels: {', '.join(r.channels)}",
     ]
     if r.leg_stats:
@@ -74,14 +105,7 @@ def _input_block(r: InputReport, paint: _Paint) -> list[str]:
             rows.append([s.leg, n_hl, m_hl, n_lh, m_lh, str(count)])
         lines += _table(rows)
     if r.margins:
-        lines.append(
-            "  worst margins: "
-            + "; ".join(
-                f"{m.leg} {m.rule}{'' if m.kind == 'commanded' else ' (' + m.kind + ')'} "
-                f"{format_time(m.margin_ps)} @ {format_time(m.at_ps)}"
-                for m in r.margins
-            )
-        )
+        lines += _margin_table(r)
     if isinstance(r.extra.get("caution"), str):  # set by rules that judge hardware
         lines.append(paint(_YELLOW, f"  {r.extra['caution']}"))
     not_proven = sum(d.not_proven for s in r.leg_stats for d in (s.high_to_low, s.low_to_high))
