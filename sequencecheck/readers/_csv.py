@@ -35,6 +35,8 @@ _UNIT_IN_NAME = re.compile(
 )
 BLOCK_BYTES = 4 << 20  # pyarrow's block: a row must fit in two
 CHUNK_BYTES = 1 << 20  # the raw-bytes path's chunk (small enough to stay in cache)
+_PS_LIMIT = float(2**63)  # int64 picoseconds: about 106 days either side of zero
+_OUT_OF_RANGE = "is out of range: times must stay within about 106 days (int64 picoseconds)"
 
 
 @dataclass(frozen=True, slots=True)
@@ -343,13 +345,29 @@ def _first_problem(
     t: np.ndarray,
     last_t: int | None,
     values: Sequence[np.ndarray],
+    raw_t: np.ndarray | None = None,
 ) -> InputError | None:
-    """The earliest bad row of a batch (non-finite or decreasing time, value not 0/1)."""
+    """The earliest bad row of a batch (non-finite, out-of-range or decreasing time,
+    value not 0/1)."""
     time_name = layout.names[layout.time_index]
     found: list[tuple[int, int, str]] = []  # (row, order at a tie, message)
     if tf is not None and not np.isfinite(tf).all():
         bad = int(np.flatnonzero(~np.isfinite(tf))[0])
         found.append((bad, 0, f"column {time_name!r}: expected a finite time, found {tf[bad]}"))
+    if tf is not None:
+        with np.errstate(invalid="ignore", over="ignore"):
+            out = np.isfinite(tf) & ~(np.abs(tf * layout.ps_per_tick) < _PS_LIMIT)
+        if out.any():
+            bad = int(np.flatnonzero(out)[0])
+            found.append((bad, 0, f"column {time_name!r}: time {tf[bad]!r} {_OUT_OF_RANGE}"))
+    elif raw_t is not None and layout.sample_period_ps:
+        most = (2**63 - 1) // layout.sample_period_ps
+        out = (raw_t > most) | (raw_t < -most)
+        if out.any():
+            bad = int(np.flatnonzero(out)[0])
+            found.append(
+                (bad, 0, f"column {time_name!r}: sample index {int(raw_t[bad])} {_OUT_OF_RANGE}")
+            )
     prev = np.empty_like(t)
     prev[1:] = t[:-1]
     prev[0] = t[0] if last_t is None else last_t
@@ -393,12 +411,15 @@ def _assemble(
             first_line = rows + 2
             if layout.ps_per_tick is None:
                 tf = None
-                t = raw_t.astype(np.int64, copy=False) * np.int64(layout.sample_period_ps)
+                with np.errstate(over="ignore"):  # out of range: named below
+                    t = raw_t.astype(np.int64, copy=False) * np.int64(layout.sample_period_ps)
             else:
                 tf = raw_t
                 with np.errstate(invalid="ignore", over="ignore"):  # nan/inf: named below
                     t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
-            problem = _first_problem(path, layout, wanted, first_line, tf, t, last_t, values)
+            problem = _first_problem(
+                path, layout, wanted, first_line, tf, t, last_t, values, raw_t
+            )
             if problem is not None:
                 raise problem
             steps = np.diff(t) if last_t is None else np.diff(t, prepend=last_t)
