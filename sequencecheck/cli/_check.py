@@ -15,9 +15,9 @@ from ..units import parse_duration
 from ._bridge_file import add_bridge_argument, apply_bridge_file
 from ._modes_options import add_mode_options, apply_mode_options, mode_settings, states_view
 from ._output import check_output_path, write_output
-from ._progress import progress_display
 from ._physics_flags import add_physics_arguments, apply_physics_arguments, physics_settings
 from ._pictures import add_picture_options, check_plots_dir, draw_pictures
+from ._progress import progress_display
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
 
