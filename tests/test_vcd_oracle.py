@@ -106,3 +106,29 @@ def test_plain_python_path_matches_pyvcd_tokenizer(tmp_path_factory, data: bytes
     for name, (initial, times, levels) in expected.items():
         ch = trace.channel(name)
         assert (ch.initial, ch.times.tolist(), ch.levels.tolist()) == (initial, times, levels), name
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    n_vars=st.integers(95, 300),
+    events=st.lists(st.tuples(st.integers(0, 2), st.integers(0, 299), st.sampled_from("01xz"))),
+    chunk=st.one_of(st.integers(16, 400), st.just(1 << 20)),
+)
+def test_many_variables_with_multi_character_codes(tmp_path_factory, n_vars, events, chunk):
+    """More than 94 variables: identifier codes of two characters go through the fast path."""
+    f = io.StringIO()
+    with vcd_writer.VCDWriter(f, timescale="1 ns", date="today") as w:
+        vs = [w.register_var("top.bank", f"g{i}", "wire", size=1, init="0") for i in range(n_vars)]
+        t = 0
+        for dt, i, value in events:
+            t += dt
+            w.change(vs[i % n_vars], t, value)
+    data = f.getvalue().encode()
+    path = tmp_path_factory.mktemp("vcd") / "many.vcd"
+    path.write_bytes(data)
+    expected, start, end = oracle_channels(data)
+    trace = read_vcd(str(path), channels=list(expected), chunk_bytes=chunk)
+    assert (trace.start_ps, trace.end_ps) == (start, end)
+    for name, (initial, times, levels) in expected.items():
+        ch = trace.channel(name)
+        assert (ch.initial, ch.times.tolist(), ch.levels.tolist()) == (initial, times, levels), name

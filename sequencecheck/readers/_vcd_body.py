@@ -1,9 +1,10 @@
 """The value-change part of a VCD, read chunk by chunk with state carried across borders.
 
-Each chunk (whole lines only) goes through the numpy fast path when every line is
-a timestamp ``#N``, a scalar change such as ``1!`` or empty; any other chunk goes
-through the general line parser. Both append to the same per-channel buffers, so
-the result does not depend on where chunks are cut.
+Runs of plain lines (a timestamp ``#N``, a scalar change such as ``1!`` with an
+identifier of up to eight characters, or nothing) go through the numpy fast path;
+from any other line the general line parser takes over until no section is open.
+Both append to the same per-channel buffers, so the result does not depend on where
+chunks are cut.
 """
 
 from __future__ import annotations
@@ -26,6 +27,8 @@ for _c, _v in (("0", 0), ("1", 1), ("x", 2), ("X", 2), ("z", 3), ("Z", 3)):
     _VALUE_LUT[ord(_c)] = _v
 _DUMP_SECTIONS = {"$dumpvars", "$dumpon", "$dumpoff", "$dumpall"}
 _UNDECLARED, _GENERAL, _UNWANTED = -3, -2, -1
+#: Masks keeping the first n bytes (n = 0..8) of a little-endian 64-bit word.
+_ID_MASKS = np.array([(1 << (8 * n)) - 1 for n in range(8)] + [2**64 - 1], dtype=np.uint64)
 _MAX_TICK_DIGITS = 18
 
 
@@ -85,20 +88,32 @@ class VcdBody:
         self.outer: tuple[str, int] | None = None  # a dump section around a $comment
         self.pending: tuple[str, int] | None = None  # vector/real value awaiting its id
         self._id_lut = self._one_char_lut()
-        self.fast_chunks = self.general_chunks = 0
+        self._keys, self._key_slots = self._key_table()
 
     # -- lookup tables for the fast path ---------------------------------------------------
     def _one_char_lut(self) -> np.ndarray:
         lut = np.full(256, _UNDECLARED, dtype=np.int32)
-        for code, var in self.declared.items():
-            if len(code) != 1:
-                continue
-            slots = self.slots_by_code.get(code, [])
-            if var.width != 1 or var.kind == "real" or len(slots) > 1:
-                lut[ord(code)] = _GENERAL if slots or var.kind == "real" else _UNWANTED
-            else:
-                lut[ord(code)] = slots[0][0] if slots else _UNWANTED
+        for code in self.declared:
+            if len(code) == 1:
+                lut[ord(code)] = self._code_slot(code)
         return lut
+
+    def _code_slot(self, code: str) -> int:
+        var = self.declared[code]
+        slots = self.slots_by_code.get(code, [])
+        if var.width != 1 or var.kind == "real" or len(slots) > 1:
+            return _GENERAL if slots or var.kind == "real" else _UNWANTED
+        return slots[0][0] if slots else _UNWANTED
+
+    def _key_table(self) -> tuple[np.ndarray, np.ndarray]:
+        """Identifier codes of 2-8 characters as sorted little-endian integers, and slots."""
+        pairs = sorted(
+            (int.from_bytes(code.encode("latin-1"), "little"), self._code_slot(code))
+            for code in self.declared
+            if 2 <= len(code) <= 8
+        )
+        keys = np.array([k for k, _ in pairs], dtype=np.uint64)
+        return keys, np.array([v for _, v in pairs], dtype=np.int32)
 
     # -- chunks ------------------------------------------------------------------------------
     def feed(self, data: bytes, first_line: int) -> int:
@@ -142,11 +157,17 @@ class VcdBody:
         length = ends - starts
         head = buf[starts]  # the newline itself for an empty line
         is_time = (head == 35) & (length >= 2) & (length <= _MAX_TICK_DIGITS + 1)
-        is_change = (length == 2) & (_VALUE_LUT[head] < 4)
+        is_value = _VALUE_LUT[head] < 4
+        is_change = (length == 2) & is_value
         second = starts + 1
         if second[-1] >= buf.size:  # an empty last line
             second[-1] = buf.size - 1
         slot = self._id_lut[buf[second]]
+        if self._keys.size:  # identifier codes of 2-8 characters (more than 94 variables)
+            longer = np.flatnonzero((length >= 3) & (length <= 9) & is_value)
+            if longer.size:
+                self._long_ids(data, pos, starts[longer], length[longer] - 1, longer, slot)
+                is_change[longer] = True
         ok = is_time | (is_change & (slot > _GENERAL)) | (length == 0)
         t_idx = np.flatnonzero(is_time)
         ticks, bad_tick = _parse_ticks(buf, starts[t_idx] + 1, ends[t_idx])
@@ -186,6 +207,25 @@ class VcdBody:
                 a, b = int(bounds[s]), int(bounds[s + 1])
                 self._store(s, t_of_change[a:b], level[a:b], lines[a:b])
         return int(nl[n - 1]) + 1, n
+
+    def _long_ids(
+        self,
+        data: bytes,
+        pos: int,
+        starts: np.ndarray,
+        sizes: np.ndarray,
+        rows: np.ndarray,
+        slot: np.ndarray,
+    ) -> None:
+        """Look up multi-character identifiers (after the value character) into ``slot``."""
+        padded = np.frombuffer(data[pos:] + bytes(8), dtype=np.uint8)
+        words = np.ndarray(
+            shape=(padded.size - 7,), dtype="<u8", buffer=padded.data, offset=0, strides=(1,)
+        )
+        key = words[starts + 1] & _ID_MASKS[sizes]
+        at = np.minimum(np.searchsorted(self._keys, key), self._keys.size - 1)
+        found = self._keys[at] == key
+        slot[rows] = np.where(found, self._key_slots[at], _UNDECLARED)
 
     def _check_times(self, ticks: np.ndarray, lines: np.ndarray) -> None:
         """Raise for the first timestamp that goes back or is not a whole picosecond."""
