@@ -13,6 +13,9 @@ __version__ = "0.1.0"
 # api
 from .api import check, check_file, check_trace
 
+# batch
+from .batch import check_many
+
 # errors
 from .errors import InputError, SequenceCheckError, UsageError
 
@@ -48,7 +51,7 @@ from .model._physics import BootstrapSupply, SwitchTiming
 from .physics import BootstrapLimits
 
 # readers
-from .readers import read, read_csv
+from .readers import read, read_csv, read_vcd
 
 # rules
 from .rules import RULES, run
@@ -91,6 +94,7 @@ __all__ = [
     "__version__",
     "check",
     "check_file",
+    "check_many",
     "check_trace",
     "format_time",
     "load_bridge",
@@ -98,5 +102,6 @@ __all__ = [
     "read",
     "read_csv",
     "read_table",
+    "read_vcd",
     "run",
 ]

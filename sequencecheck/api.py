@@ -54,12 +54,18 @@ def check(
     policy: Policy | None = None,
     *,
     keep_going: bool = True,
+    jobs: int | None = 1,
     **read_options: Any,
 ) -> Report:
     """Check each input; an unreadable input becomes an InputReport with ``error`` set
-    (or raises, with ``keep_going=False``)."""
+    (or raises, with ``keep_going=False``). ``jobs`` > 1 checks inputs in that many
+    worker processes (None: one per core); see sequencecheck.batch."""
     if isinstance(paths, str | os.PathLike):
         paths = [os.fspath(paths)]
+    if jobs != 1 and keep_going:
+        from .batch import check_many
+
+        return check_many(paths, bridge, policy, jobs=jobs, **read_options)
     results = []
     for p in paths:
         try:

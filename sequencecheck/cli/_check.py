@@ -6,7 +6,8 @@ import argparse
 import os
 import sys
 
-from ..api import check
+from ..api import check  # noqa: F401 - kept for code importing it from here
+from ..batch import check_many
 from ..legs import parse_leg
 from ..model import Bridge, DeadTime, Policy
 from ..reporters import REPORTERS, render
@@ -16,6 +17,7 @@ from ._modes_options import add_mode_options, apply_mode_options, mode_settings,
 from ._output import check_output_path, write_output
 from ._physics_flags import add_physics_arguments, apply_physics_arguments, physics_settings
 from ._pictures import add_picture_options, check_plots_dir, draw_pictures
+from ._progress import progress_display
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
 
@@ -26,6 +28,7 @@ EXAMPLES = """examples:
   sequencecheck check capture.csv --leg A=AH,AL --leg B=BH,BL --dead-time 500ns
   sequencecheck check capture.csv --dead-time 1us --active-low AL,BL --format json
   sequencecheck check samples.csv --time-column sample --sample-rate 100e6 --dead-time 200ns
+  sequencecheck check night/*.csv night/*.vcd --dead-time 500ns --jobs 2
   sequencecheck check capture.csv --min-pulse 100ns --reversal-dwell 2ms --states
   sequencecheck check reversal.steps            (a table brings its bridge and limits)
   sequencecheck check capture.csv --bridge drive.bridge --dead-time 1us
@@ -42,7 +45,7 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
         epilog=EXAMPLES,
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
-    p.add_argument("inputs", nargs="+", metavar="INPUT", help="CSV capture(s)")
+    p.add_argument("inputs", nargs="+", metavar="INPUT", help="CSV or VCD capture(s)")
     p.add_argument(
         "--leg",
         action="append",
@@ -83,6 +86,15 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
         help="list at most N violations per rule and input; the rest are counted "
         f"(default: {DEFAULT_MAX_FINDINGS}; 0: list every one)",
     )
+    p.add_argument(
+        "--jobs",
+        "-j",
+        metavar="N",
+        type=_positive_int,
+        default=None,
+        help="check up to N inputs at once in worker processes (default: one per core)",
+    )
+    p.add_argument("--quiet", action="store_true", help="no progress bars on stderr")
     add_picture_options(p)
     add_mode_options(p)
 
@@ -91,6 +103,16 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     add_bridge_argument(p)
     p.set_defaults(func=run_check)
     return p
+
+
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        value = 0
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"must be a whole number >= 1, not {text!r}")
+    return value
 
 
 def build_bridge(args: argparse.Namespace) -> Bridge:
@@ -141,7 +163,10 @@ def run_check(args: argparse.Namespace) -> int:
         "time_unit": args.time_unit,
         "sample_rate_hz": args.sample_rate,
     }
-    report = check(args.inputs, bridge, policy, **read_options)
+    with progress_display(len(args.inputs), quiet=args.quiet) as display:
+        report = check_many(
+            args.inputs, bridge, policy, jobs=args.jobs, progress=display, **read_options
+        )
     report = type(report)(report.inputs, _settings(args, policy))
     report = type(report)(
         states_view(report.inputs, args.states), {**report.settings, **mode_settings(policy)}

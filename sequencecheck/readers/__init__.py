@@ -13,14 +13,16 @@ from ..errors import InputError
 from ..language import BRIDGE_SUFFIX, TABLE_SUFFIX, read_table
 from ..model import Trace
 from ._csv import read_csv
+from ._vcd import read_vcd
 
-__all__ = ["READERS", "read", "read_csv"]
+__all__ = ["READERS", "read", "read_csv", "read_vcd"]
 
 #: Suffix -> reader. Each reader takes the path and keyword options it understands.
 READERS: dict[str, Callable[..., Trace]] = {
     ".csv": read_csv,
     ".txt": read_csv,
     ".tsv": read_csv,
+    ".vcd": read_vcd,
     TABLE_SUFFIX: read_table,  # the bridge language's timed switch-state tables
 }
 

@@ -14,10 +14,11 @@ Each row's values hold until the next row's time.
 from __future__ import annotations
 
 import csv
+import io
 import math
 import os
 import re
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -25,13 +26,17 @@ import numpy as np
 from ..errors import InputError, UsageError
 from ..model import Channel, Trace
 from ..units import unit_scale
+from ._csv_fast import Decline, raw_batches, takes_layout
 
 __all__ = ["CsvLayout", "read_csv", "sniff_layout"]
 
 _UNIT_IN_NAME = re.compile(
     r"(?:[\s_\-]*[\(\[]\s*|[_\-\s])(s|ms|us|µs|μs|ns|ps)\s*[\)\]]?\s*$", re.I
 )
-BLOCK_BYTES = 4 << 20
+BLOCK_BYTES = 4 << 20  # pyarrow's block: a row must fit in two
+CHUNK_BYTES = 1 << 20  # the raw-bytes path's chunk (small enough to stay in cache)
+_PS_LIMIT = float(2**63)  # int64 picoseconds: about 106 days either side of zero
+_OUT_OF_RANGE = "is out of range: times must stay within about 106 days (int64 picoseconds)"
 
 
 @dataclass(frozen=True, slots=True)
@@ -110,17 +115,27 @@ def sniff_layout(
     return CsvLayout(delimiter, names, time_index, ps_per_tick, sample_period_ps, len(head))
 
 
-def _arrow_batches(path: str, layout: CsvLayout, columns: Sequence[str]) -> Iterator[object]:
+def _arrow_batches(
+    path: str,
+    layout: CsvLayout,
+    columns: Sequence[str],
+    progress: Callable[[int], None] | None = None,
+) -> Iterator[tuple[np.ndarray, list[np.ndarray]]]:
+    """Yield (time column, channel columns) per pyarrow block, as numpy arrays."""
     import pyarrow as pa
     import pyarrow.csv as pacsv
 
     time_name = layout.names[layout.time_index]
     types = {name: pa.int8() for name in columns}
     types[time_name] = pa.int64() if layout.ps_per_tick is None else pa.float64()
+    source = _CountingFile(path)
     reader = pacsv.open_csv(
-        path,
+        source,
         read_options=pacsv.ReadOptions(
-            column_names=list(layout.names), skip_rows=1, block_size=BLOCK_BYTES, use_threads=True
+            column_names=list(layout.names),
+            skip_rows=1,
+            block_size=BLOCK_BYTES,
+            use_threads=True,
         ),
         parse_options=pacsv.ParseOptions(delimiter=layout.delimiter, ignore_empty_lines=False),
         convert_options=pacsv.ConvertOptions(
@@ -131,7 +146,36 @@ def _arrow_batches(path: str, layout: CsvLayout, columns: Sequence[str]) -> Iter
             quoted_strings_can_be_null=False,
         ),
     )
-    yield from reader
+    time_type = np.int64 if layout.ps_per_tick is None else np.float64
+    try:
+        for batch in reader:
+            t = _numpy(batch.column(0), time_type)
+            yield t, [_numpy(batch.column(i), np.int8) for i in range(1, len(columns) + 1)]
+            if progress is not None:
+                progress(source.done)
+    finally:
+        source.close()
+
+
+class _CountingFile(io.RawIOBase):
+    """A binary file that counts the bytes handed out (for progress on pyarrow's path)."""
+
+    def __init__(self, path: str) -> None:
+        super().__init__()
+        self._f = open(path, "rb")  # noqa: SIM115 - closed by close()
+        self.done = 0
+
+    def readable(self) -> bool:
+        return True
+
+    def readinto(self, b: bytearray) -> int:  # type: ignore[override]
+        n = self._f.readinto(b)
+        self.done += n or 0
+        return n or 0
+
+    def close(self) -> None:
+        self._f.close()
+        super().close()
 
 
 def _numpy(col: object, dtype: type) -> np.ndarray:
@@ -150,6 +194,7 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
     """Walk the file in pure Python to name the first bad row, after the fast path failed."""
     idx = [layout.names.index(c) for c in columns]
     time_name = layout.names[layout.time_index]
+    last_ps: int | None = None
     with open(path, newline="", encoding="utf-8-sig", errors="replace") as f:
         reader = csv.reader(f, delimiter=layout.delimiter)
         next(reader, None)
@@ -177,6 +222,17 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
                 return InputError(
                     f"column {time_name!r}: expected {kind}, found {t!r}", path=path, line=line
                 )
+            if layout.ps_per_tick is None:
+                t_ps = int(t) * (layout.sample_period_ps or 0)
+            else:
+                t_ps = int(np.rint(float(t) * layout.ps_per_tick))
+            if last_ps is not None and t_ps < last_ps:  # as the batch check words it
+                return InputError(
+                    f"time goes backwards (column {time_name!r}); expected non-decreasing time",
+                    path=path,
+                    line=line,
+                )
+            last_ps = t_ps
             for i, name in zip(idx, columns, strict=True):
                 v = row[i].strip()
                 if v not in ("0", "1"):
@@ -230,13 +286,23 @@ def read_csv(
     time_column: str | None = None,
     time_unit: str | None = None,
     sample_rate_hz: float | None = None,
+    chunk_bytes: int = CHUNK_BYTES,
+    progress: Callable[[int], None] | None = None,
+    fast_path: bool = True,
 ) -> Trace:
     """Read a CSV capture into a Trace of the named channels (default: every column).
 
-    Memory is bounded by the number of edges: rows are parsed in blocks and
-    only changes are kept. Raises InputError naming the row of any bad value.
+    Memory is bounded by the number of edges: rows are parsed in chunks of about
+    ``chunk_bytes`` (pyarrow's fallback in blocks of at least 4 MiB) and only
+    changes are kept. Rows in the common fixed layout
+    (time first, then 0/1 channels) take a raw-bytes numpy path; any other shape
+    goes through pyarrow. Raises InputError naming the row of any bad value;
+    ``progress`` is called with the bytes read so far after each chunk;
+    ``fast_path=False`` forces the general reader (for comparisons).
     """
     path = os.fspath(path)
+    if chunk_bytes < 1:
+        raise ValueError("chunk_bytes must be >= 1")
     layout = sniff_layout(
         path, time_column=time_column, time_unit=time_unit, sample_rate_hz=sample_rate_hz
     )
@@ -249,56 +315,125 @@ def read_csv(
                 path=path,
                 line=1,
             )
+    if layout.header_bytes >= os.path.getsize(path):  # nothing after the header line
+        raise InputError("header only, expected rows of data after it", path=path, line=2)
+    if fast_path and takes_layout(layout.names, layout.time_index, layout.delimiter):
+        picks = [layout.names.index(name) - 1 for name in wanted]
+        raw = raw_batches(
+            path,
+            layout.header_bytes,
+            len(layout.names) - 1,
+            layout.delimiter,
+            layout.ps_per_tick is None,
+            chunk_bytes,
+            progress,
+        )
+        try:
+            return _assemble(path, layout, wanted, ((t, v[picks]) for t, v in raw))
+        except Decline:
+            pass  # not the fixed layout after all: the general reader decides
+    batches = _arrow_batches(path, layout, wanted, progress)
+    return _assemble(path, layout, wanted, batches)
+
+
+def _first_problem(
+    path: str,
+    layout: CsvLayout,
+    wanted: Sequence[str],
+    first_line: int,
+    tf: np.ndarray | None,
+    t: np.ndarray,
+    last_t: int | None,
+    values: Sequence[np.ndarray],
+    raw_t: np.ndarray | None = None,
+) -> InputError | None:
+    """The earliest bad row of a batch (non-finite, out-of-range or decreasing time,
+    value not 0/1)."""
+    time_name = layout.names[layout.time_index]
+    found: list[tuple[int, int, str]] = []  # (row, order at a tie, message)
+    if tf is not None and not np.isfinite(tf).all():
+        bad = int(np.flatnonzero(~np.isfinite(tf))[0])
+        found.append((bad, 0, f"column {time_name!r}: expected a finite time, found {tf[bad]}"))
+    if tf is not None:
+        with np.errstate(invalid="ignore", over="ignore"):
+            out = np.isfinite(tf) & ~(np.abs(tf * layout.ps_per_tick) < _PS_LIMIT)
+        if out.any():
+            bad = int(np.flatnonzero(out)[0])
+            found.append((bad, 0, f"column {time_name!r}: time {tf[bad]!r} {_OUT_OF_RANGE}"))
+    elif raw_t is not None and layout.sample_period_ps:
+        most = (2**63 - 1) // layout.sample_period_ps
+        out = (raw_t > most) | (raw_t < -most)
+        if out.any():
+            bad = int(np.flatnonzero(out)[0])
+            found.append(
+                (bad, 0, f"column {time_name!r}: sample index {int(raw_t[bad])} {_OUT_OF_RANGE}")
+            )
+    prev = np.empty_like(t)
+    prev[1:] = t[:-1]
+    prev[0] = t[0] if last_t is None else last_t
+    back = np.flatnonzero(t < prev)
+    if back.size:
+        found.append(
+            (
+                int(back[0]),
+                1,
+                f"time goes backwards (column {time_name!r}); expected non-decreasing time",
+            )
+        )
+    for name, v in zip(wanted, values, strict=True):
+        over = v.view(np.uint8) > 1
+        if over.any():
+            bad = int(np.flatnonzero(over)[0])
+            found.append((bad, 2, f"column {name!r}: expected 0 or 1, found {int(v[bad])}"))
+    if not found:
+        return None
+    row, _, message = min(found)
+    return InputError(message, path=path, line=first_line + row)
+
+
+def _assemble(
+    path: str,
+    layout: CsvLayout,
+    wanted: Sequence[str],
+    batches: Iterator[tuple[np.ndarray, Sequence[np.ndarray]]],
+) -> Trace:
+    """Turn batches of (raw times, values per wanted channel) into a Trace."""
+    time_name = layout.names[layout.time_index]
     collectors = {name: _EdgeCollector() for name in wanted}
     rows = 0
     first_t = last_t = None
     min_step = max_step = None
     try:
-        for batch in _arrow_batches(path, layout, wanted):
-            n = batch.num_rows  # type: ignore[attr-defined]
+        for raw_t, values in batches:
+            n = raw_t.size
             if n == 0:
                 continue
             first_line = rows + 2
-            raw = batch.column(0)  # type: ignore[attr-defined]
             if layout.ps_per_tick is None:
-                t = _numpy(raw, np.int64) * np.int64(layout.sample_period_ps)
+                tf = None
+                with np.errstate(over="ignore"):  # out of range: named below
+                    t = raw_t.astype(np.int64, copy=False) * np.int64(layout.sample_period_ps)
             else:
-                tf = _numpy(raw, np.float64)
-                if not np.isfinite(tf).all():
-                    bad = int(np.flatnonzero(~np.isfinite(tf))[0])
-                    raise InputError(
-                        f"column {time_name!r}: expected a finite time, found {tf[bad]}",
-                        path=path,
-                        line=first_line + bad,
-                    )
-                t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
+                tf = raw_t
+                with np.errstate(invalid="ignore", over="ignore"):  # nan/inf: named below
+                    t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
+            problem = _first_problem(
+                path, layout, wanted, first_line, tf, t, last_t, values, raw_t
+            )
+            if problem is not None:
+                raise problem
             steps = np.diff(t) if last_t is None else np.diff(t, prepend=last_t)
             if steps.size:
-                if steps.min() < 0:
-                    bad = int(np.flatnonzero(steps < 0)[0]) + (1 if last_t is None else 0)
-                    raise InputError(
-                        f"time goes backwards (column {time_name!r}); expected non-decreasing time",
-                        path=path,
-                        line=first_line + bad,
-                    )
                 lo, hi = int(steps.min()), int(steps.max())
                 min_step = lo if min_step is None else min(min_step, lo)
                 max_step = hi if max_step is None else max(max_step, hi)
             if first_t is None:
                 first_t = int(t[0])
             last_t = int(t[-1])
-            for i, name in enumerate(wanted, start=1):
-                v = _numpy(batch.column(i), np.int8)  # type: ignore[attr-defined]
-                if (v.view(np.uint8) > 1).any():
-                    bad = int(np.flatnonzero(v.view(np.uint8) > 1)[0])
-                    raise InputError(
-                        f"column {name!r}: expected 0 or 1, found {int(v[bad])}",
-                        path=path,
-                        line=first_line + bad,
-                    )
+            for name, v in zip(wanted, values, strict=True):
                 collectors[name].feed(v, t, first_line)
             rows += n
-    except InputError:
+    except (InputError, Decline):
         raise
     except Exception:  # pyarrow's parse/convert errors carry no row: find it ourselves
         raise _diagnose(path, layout, wanted) from None

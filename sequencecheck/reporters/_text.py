@@ -10,6 +10,7 @@ from __future__ import annotations
 from .._printable import printable as _p
 from ..findings import Certainty, DirectionStats, Finding, InputReport, Report
 from ..units import format_time
+from ._files import file_summary_lines
 from ._states import states_lines
 
 __all__ = ["render_text"]
@@ -63,9 +64,7 @@ def _finding_line(f: Finding, paint: _Paint) -> str:
     margin = "" if f.margin_ps is None else f"  margin {format_time(f.margin_ps)}"
     tag = "" if f.certainty is Certainty.PROVEN else "  [inconclusive at this sample rate]"
     colour = _RED if f.is_violation else _YELLOW
-    return (
-        f"  {format_time(f.start_ps):>16}  {paint(colour, _p(f.rule))}  {_p(f.message)}{margin}{tag}{where}"
-    )
+    return f"  {format_time(f.start_ps):>16}  {paint(colour, _p(f.rule))}  {_p(f.message)}{margin}{tag}{where}"
 
 
 def _margin_table(r: InputReport) -> list[str]:
@@ -142,6 +141,8 @@ def render_text(report: Report, *, colour: bool = False) -> str:
     lines: list[str] = []
     for r in report.inputs:
         lines += _input_block(r, paint)
+    if len(report.inputs) > 1:
+        lines += file_summary_lines(report)
     violations = report.violation_count
     by_rule = ", ".join(f"{k} {v}" for k, v in sorted(report.by_rule().items()))
     n_in = len(report.inputs)

@@ -27,7 +27,6 @@ RULES: tuple[Rule, ...] = (
     MODE_TRANSITION,
     MIN_PULSE,
     UNKNOWN_STATE,
-
     DEAD_TIME_MARGIN,
     BOOTSTRAP_REFRESH,
 )
