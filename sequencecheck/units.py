@@ -34,6 +34,15 @@ PS_PER_UNIT: dict[str, int] = {
     "s": 1_000_000_000_000,
 }
 _UNITS = {k: v for k, v in PS_PER_UNIT.items() if v}
+#: The longest time the tool represents: int64 picoseconds (about 106 days).
+MAX_PS = 2**63 - 1
+
+
+def _short(text: str) -> str:
+    """``text`` quoted, cut in the middle when long (a 5,000-digit number stays readable)."""
+    return repr(text) if len(text) <= 40 else repr(text[:18] + "..." + text[-18:])
+
+
 _EXACT = Context(prec=64, traps=[InvalidOperation, Overflow, Underflow, Inexact])
 _DURATION = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([a-zµμ]*)\s*$")
 
@@ -69,9 +78,11 @@ def parse_duration(text: str, *, what: str = "duration", allow_negative: bool = 
             value = Decimal(number) * _UNITS[unit]
             exact = value == value.to_integral_value()
     except ArithmeticError:  # overflow or underflow on absurd exponents
-        raise UsageError(f"{what} {text!r} is out of range") from None
+        raise UsageError(f"{what} {_short(text)} is out of range") from None
     if not exact:
         raise UsageError(f"{what} {text!r} is finer than the tool's 1 ps resolution")
+    if abs(value) > MAX_PS:
+        raise UsageError(f"{what} {_short(text)} is out of range (at most about 106 days)")
     ps = int(value)
     if ps < 0 and not allow_negative:
         raise UsageError(f"{what} must not be negative: {text!r}")

@@ -221,13 +221,30 @@ def test_mode_nested_too_deeply(tmp_path):
 
 
 def test_modes_of_modes_too_deep_to_evaluate(tmp_path):
+    # Refused where the too-deep mode is defined: a mode used only by the checks (never
+    # as a step) would otherwise overflow Python's stack while the checks evaluate it.
     lines = [LEGS + "mode m0 = " + "not " * 90 + "A.high"]
     lines += [f"mode m{i} = " + "not " * 90 + f"m{i - 1}" for i in range(1, 40)]
     path = tmp_path / "t.steps"
     path.write_text("\n".join(lines) + "\n0 mode m39\n")
+    line = LEGS.count("\n") + 2
     with pytest.raises(
         InputError,
-        match=rf"^{where(str(path), 43, 8)}: mode m39 \(line 42\) cannot be a step: it nests too deeply to evaluate; set the switches explicitly$",
+        match=rf"^{where(str(path), line, 6)}: mode m1: with the modes it uses put in place, the expression nests deeper than 100 levels$",
+    ):
+        read_table(str(path))
+
+
+def test_modes_of_modes_too_large_to_evaluate(tmp_path):
+    # each mode doubles the one before: 2**14 terms from 15 short lines
+    lines = [LEGS + "mode m0 = A.high"]
+    lines += [f"mode m{i} = m{i - 1} and m{i - 1}" for i in range(1, 15)]
+    path = tmp_path / "t.steps"
+    path.write_text("\n".join(lines) + "\n0 mode m14\n")
+    line = LEGS.count("\n") + 14
+    with pytest.raises(
+        InputError,
+        match=rf"^{where(str(path), line, 6)}: mode m13: with the modes it uses put in place, the expression grows past 10,000 terms$",
     ):
         read_table(str(path))
 

@@ -18,7 +18,7 @@ from ..model import (
     TransitionPolicy,
     TransitionRule,
 )
-from ._modes import resolve
+from ._modes import MAX_DEPTH, MAX_TERMS, measure, resolve
 from ._state import LoaderState
 from ._values import quantity
 
@@ -106,6 +106,21 @@ class BridgeStatements(LoaderState):
 
         exprs = {n: m.expr for n, m in self.modes.items()}
         expr: ModeExpr = resolve(node, self.legs, self.switch_of, exprs, fail)
+        # earlier modes are put in place, so the expansion can nest deeper or grow
+        # far larger than this line: bound both, or evaluating it would never end
+        depth, terms = measure(expr)
+        if depth > MAX_DEPTH + 1:
+            raise fail(
+                f"with the modes it uses put in place, the expression nests deeper than "
+                f"{MAX_DEPTH} levels",
+                None,
+            )
+        if terms > MAX_TERMS:
+            raise fail(
+                f"with the modes it uses put in place, the expression grows past "
+                f"{MAX_TERMS:,} terms",
+                None,
+            )
         self.modes[str(name)] = Mode(str(name), expr, self.source(name))
         self.defined_at[key] = self.line
 

@@ -32,6 +32,7 @@ TERMINAL_WORDS = {
     "SUPPLY_KEY": "a bootstrap value (capacitance, gate-charge, leakage, supply, diode-drop, "
     "min-vgs or resistance)",
     "$END": "the end of the line",
+    "<END-OF-FILE>": "the end of the line",  # lark's lexer names $END so
 }
 _STATEMENT = (
     "a step (a time such as 0 or +750ns, then settings such as AH=on or 'mode NAME') or a "
@@ -46,7 +47,9 @@ _LOOSE_SETTING = re.compile(r"^([A-Za-z_][\w.]*)(=\S*)?$")
 def _word_at(text: str, column: int) -> str:
     rest = text[column - 1 :]
     m = re.match(r"\S+", rest)
-    return m.group(0) if m else ""
+    if m is None:  # a space-like character the grammar does not skip (form feed, U+2028...)
+        return rest[:1]
+    return m.group(0)
 
 
 def _pattern(name: str, parser: Any) -> str:
@@ -85,6 +88,13 @@ def _hint(found: str, names: set[str], text: str, column: int) -> str | None:
             f"such as {m.group(1)}=on"
         )
     if "SETTINGS" in names:
+        if step_line and (m := _LOOSE_SETTING.match(found)) is not None and not m.group(2):
+            after = text[column - 1 + len(found) :].lstrip()
+            if not after.startswith("="):  # a bare switch name: `0 AH`
+                return (
+                    f"{found!r}: set a switch to on or off (or a pin level to 1 or 0), "
+                    f"such as {m.group(1)}=on"
+                )
         if (m := _BAD_SETTING.match(found)) is not None:
             return f"{found!r}: set a switch to on or off (or a pin level to 1 or 0), not {m.group(2)!r}"
         after = text[column - 1 + len(found) :].lstrip()

@@ -73,6 +73,21 @@ class Loaded:
     includes: list[str] = field(default_factory=list)
 
 
+_LINE_END = re.compile(r"\r\n|\r|\n")
+
+
+def split_lines(text: str) -> list[str]:
+    """Lines as an editor counts them: ends are LF, CRLF or CR, nothing else.
+
+    (``str.splitlines`` would also split at form feeds, vertical tabs and Unicode
+    separators, so line numbers would disagree with the user's editor.)
+    """
+    lines = _LINE_END.split(text)
+    if lines and lines[-1] == "":
+        lines.pop()
+    return lines
+
+
 def read_text(path: str) -> str:
     """The file as text; InputError (one line) if missing, a folder, or not UTF-8."""
     try:
@@ -111,7 +126,7 @@ class _Loader(BridgeStatements, StepStatements):
         # A line's statement depends on its text alone (columns included; token.line is
         # always 1 in a one-line parse and never used), so repeated lines parse once.
         seen: dict[str, tuple[Any, ...]] = {}
-        for number, raw in enumerate(text.splitlines(), start=1):
+        for number, raw in enumerate(split_lines(text), start=1):
             stripped = raw.lstrip()
             if not stripped or stripped[0] == "#":
                 continue
@@ -202,7 +217,7 @@ def load(path: str, *, table: bool) -> Loaded:
     bridge, policy = loader.bridge_and_policy()
     trace = None
     if table:
-        trace = loader.trace(text.count("\n") + (0 if text.endswith("\n") else 1))
+        trace = loader.trace(len(split_lines(text)))
         trace = Trace(
             trace.channels,
             trace.start_ps,

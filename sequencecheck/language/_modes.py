@@ -12,10 +12,22 @@ from typing import Any
 
 from ..model import All, Any_, Const, Leg, ModeExpr, Not, Side, SwitchOn
 
-__all__ = ["MAX_DEPTH", "SEARCH_LIMIT", "Switch", "holds", "resolve", "single_state"]
+__all__ = [
+    "MAX_DEPTH",
+    "MAX_TERMS",
+    "SEARCH_LIMIT",
+    "Switch",
+    "holds",
+    "measure",
+    "resolve",
+    "single_state",
+]
 
 #: Deepest nesting of not/and/or a mode expression may have.
 MAX_DEPTH = 100
+#: Most terms a mode expression may expand to once earlier modes are put in place
+#: (``mode m2 = m1 and m1`` doubles m1): evaluation walks the whole expansion.
+MAX_TERMS = 10_000
 #: Most switch states tried when finding the one a mode step sets (2**16: 8 legs).
 SEARCH_LIMIT = 65_536
 
@@ -66,6 +78,38 @@ def resolve(
         return Not(resolve(node[1], legs, switch_of, modes, fail, depth + 1))
     operands = tuple(resolve(op, legs, switch_of, modes, fail, depth + 1) for op in node[1])
     return All(operands) if kind == "and" else Any_(operands)
+
+
+def measure(expr: ModeExpr) -> tuple[int, int]:
+    """(depth, terms) of ``expr`` fully expanded, counted without expanding it.
+
+    Modes built from earlier modes share their sub-expressions, so the expansion
+    can be exponentially larger than the text; each shared node is measured once.
+    """
+    seen: dict[int, tuple[int, int]] = {}
+    order: list[ModeExpr] = []
+    stack: list[ModeExpr] = [expr]
+    while stack:  # children before parents, without recursion
+        node = stack.pop()
+        if id(node) in seen:
+            continue
+        seen[id(node)] = (0, 0)
+        order.append(node)
+        stack.extend(_children(node))
+    for node in reversed(order):
+        kids = [seen[id(k)] for k in _children(node)]
+        depth = 1 + max((d for d, _ in kids), default=0)
+        terms = 1 + sum(t for _, t in kids)
+        seen[id(node)] = (depth, terms)
+    return seen[id(expr)]
+
+
+def _children(expr: ModeExpr) -> tuple[ModeExpr, ...]:
+    if isinstance(expr, All | Any_):
+        return tuple(expr.operands)
+    if isinstance(expr, Not):
+        return (expr.operand,)
+    return ()
 
 
 def holds(expr: ModeExpr, on: frozenset[Switch]) -> bool:

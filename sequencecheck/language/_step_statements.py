@@ -138,7 +138,14 @@ class StepStatements(LoaderState):
         if not self.first_step_line:
             self.first_step_line = self.line
             self._index()
-        n = int(str(count))
+        text = str(count).lstrip("0") or "0"
+        if len(text) > 18:  # beyond any table (and int() refuses 4,300 digits)
+            raise self.error(
+                f"repeat count of {len(text):,} digits; a table may hold at most "
+                f"{MAX_CHANGES:,} switch changes",
+                count,
+            )
+        n = int(text)
         if n < 1:
             raise self.error(f"repeat count must be at least 1, not {n}", count)
         period = None if every is None else self.duration(every, "repeat period")

@@ -20,6 +20,7 @@ MAX_PS = 2**62
 Where = tuple[str, int, int]  # path, line, column
 
 _SPLIT = re.compile(r"^(\+?)((?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)[ \t]*([a-zµμ]*)$")
+_DIGITS = 24  # longer numbers are read as decimals (and found out of range there)
 _CACHE: dict[str, tuple[bool, int]] = {}
 
 
@@ -32,7 +33,7 @@ def time_ps(text: str, where: Where) -> tuple[bool, int]:
     if m is None:  # pragma: no cover - the grammar admits only these shapes
         raise InputError(f"expected a time, found {text!r}", path=where[0], line=where[1])
     plus, number, unit = m.groups()
-    if number.isdigit() and unit in PS_PER_UNIT and PS_PER_UNIT[unit]:
+    if number.isdigit() and len(number) <= _DIGITS and unit in PS_PER_UNIT and PS_PER_UNIT[unit]:
         ps = check_range(int(number) * PS_PER_UNIT[unit], text, where)
     else:
         ps = duration_ps(number + unit, where)
@@ -48,7 +49,7 @@ def duration_ps(text: str, where: Where, what: str = "duration") -> int:
         ps = parse_duration(text, what=what)
     except UsageError as e:
         raise InputError(str(e), path=path, line=line, column=column) from None
-    except ArithmeticError:  # an exponent beyond any decimal
+    except (ArithmeticError, ValueError):  # an exponent or a digit count beyond any int
         ps = MAX_PS + 1
     return check_range(ps, text, where)
 

@@ -39,6 +39,8 @@ class Fails:
     pattern: str
     line: int | None
     usage: bool = False
+    column: int | None = None  # the bridge language also names the column
+    at: str | None = None  # the file named, when not the input (an included file)
 
 
 @dataclass(frozen=True)
@@ -66,6 +68,7 @@ class Case:
     in_process: bool = True  # False when read() itself would block (a FIFO)
     timeout: float | None = None  # CLI time limit, for cases that could hang
     cli: bool = True  # False: read() only, where a sibling case already takes the CLI path
+    subprocess: bool = True  # False: the CLI runs in this process (same code, no start-up cost)
 
     def make(self, folder: Path) -> Path:
         """Create the input inside ``folder`` and return its path."""
@@ -664,6 +667,339 @@ def _write(folder: Path, data: bytes) -> Path:
     path = folder / "capture.csv"
     path.write_bytes(data)
     return path
+
+
+# --- the bridge language: step tables (.steps) and bridge descriptions (.bridge) -------
+US = 1_000_000  # picoseconds per microsecond
+
+# An invented two-leg drive; tables below include it as "drive.bridge".
+DRIVE = (
+    b"# an invented two-leg drive\n"
+    b"leg A high AH low AL\n"
+    b"leg B high BH low BL\n"
+    b"dead-time 500ns\n"
+    b"mode coast = not (AH or AL or BH or BL)\n"
+    b"mode brake = AL and BL\n"
+)
+INCLUDE = b'include "drive.bridge"\n'
+# A valid table and what it reads to: leg A switches once each way, B's low side stays on.
+TABLE = INCLUDE + (
+    b"0      AH=off AL=on BL=on\n"
+    b"+1us   AL=off\n"
+    b"+500ns AH=on\n"
+    b"+2us   AH=off\n"
+    b"+500ns AL=on\n"
+    b"end +1us\n"
+)
+TABLE_EDGES = {
+    "AH": (0, [(1_500_000, 1), (3_500_000, 0)]),
+    "AL": (1, [(1 * US, 0), (4 * US, 1)]),
+    "BH": (0, []),
+    "BL": (1, []),
+}
+
+
+def _reads_table(rows: int = 7, end_ps: int = 5 * US) -> Reads:
+    return Reads(rows=rows, channels=TABLE_EDGES, start_ps=0, end_ps=end_ps)
+
+
+def _table(body: bytes, bridge: bytes = DRIVE, name: str = "table.steps") -> Callable[[Path], Path]:
+    """A maker: ``drive.bridge`` (``bridge``) and the table ``body`` side by side."""
+
+    def make(folder: Path) -> Path:
+        (folder / "drive.bridge").write_bytes(bridge)
+        path = folder / name
+        path.write_bytes(body)
+        return path
+
+    return make
+
+
+def _files(main: str, **files: bytes) -> Callable[[Path], Path]:
+    """A maker for several files (keyword = file name with ``_`` for ``.``)."""
+
+    def make(folder: Path) -> Path:
+        for key, data in files.items():
+            (folder / key.replace("_", ".")).write_bytes(data)
+        return folder / main
+
+    return make
+
+
+def _lang(name: str, body: bytes | Callable[[Path], Path], expect: Fails | Reads, behaviour: str,
+          **kw: object) -> Case:  # fmt: skip
+    data = _table(body) if isinstance(body, bytes) else body
+    kw.setdefault("subprocess", name in _IN_A_SUBPROCESS)
+    return Case(name, data, expect, behaviour, reader="table", suffix=".steps", **kw)  # type: ignore[arg-type]
+
+
+# Language cases whose CLI run is a real subprocess; the others call the CLI in process,
+# which keeps the catalogue's CI time low (each subprocess costs about 0.4 s of start-up).
+_IN_A_SUBPROCESS = {
+    "empty table",
+    "binary garbage table (bytes 0-255)",
+    "valid table",
+    "table with CR-only line ends",
+    "decreasing times",
+    "unknown channel",
+    "table naming a missing bridge file",
+    "cycle of includes through two bridges",
+    "repeat count zero",
+    "repeat of 40 million passes",
+    "chain of 3,000 modes each negating the last",
+    "stray tokens after a step",
+    "control characters after a step",
+}
+
+
+def _bad_step(name: str, step: bytes, pattern: str, column: int, behaviour: str) -> Case:
+    """A table whose second line (after the include) is ``step``."""
+    return _lang(name, INCLUDE + step + b"\n+1us AL=on\n", Fails(pattern, 2, column=column),
+                 behaviour)
+
+
+def _nested_repeats(depth: int, passes: int) -> bytes:
+    return INCLUDE + b"0 AL=on\n" + b"repeat %d {\n" % passes * depth + b"+1ns AH=on\n+1ns AH=off\n" + b"}\n" * depth
+
+
+def _mode_chain(n: int, link: str) -> bytes:
+    lines = [b"leg A high AH low AL", b"mode m0 = AH"]
+    lines += [(f"mode m{i} = " + link.format(p=f"m{i - 1}")).encode() for i in range(1, n + 1)]
+    return INCLUDE + b"\n".join(lines) + b"\n"
+
+
+_EXPECTED_STEP = r"expected a step \(a time such as 0 or \+750ns, then settings"
+_SETTING = r"set a switch to on or off \(or a pin level to 1 or 0\)"
+
+LANGUAGE_CASES: list[Case] = [
+    # --- empty, not text -----------------------------------------------------------------
+    _lang("empty table", b"", Fails(r"empty file, expected a table", 1), "exit 2 at line 1: empty file"),
+    _lang("table of spaces and blank lines", b"  \n\t\n\n", Fails(r"empty file", 1),
+          "exit 2 at line 1: empty file"),
+    _lang("table of comments only", b"# nothing yet\n   # still nothing\n",
+          Fails(r"no legs: expected a line such as 'leg A high AH low AL' or 'include", None),
+          "exit 2: no legs (a problem of the whole file: no line named)"),
+    _lang("table with an include and no steps", INCLUDE + b"# to do\n",
+          Fails(r"no steps: a table needs at least one step that sets switches", None),
+          "exit 2: no steps (whole file)"),
+    _lang("table whose steps set no switch", INCLUDE + b"0\n+10us\nend +1us\n",
+          Fails(r"no switch is set", None), "exit 2: no switch is set (whole file)"),
+    _lang("binary garbage table (bytes 0-255)", bytes(range(256)) * 4,
+          Fails(r"is not UTF-8 text \(byte 0x80\)", 2), "exit 2 at the line of the first byte that is not UTF-8"),
+    _lang("table of NUL bytes", b"\0" * 4096, Fails(_EXPECTED_STEP + r".*found '\\x00", 1, column=1),
+          "exit 2 at 1:1: expected a step; the NULs are escaped and the message shortened"),
+    _lang("non-UTF-8 byte in a comment", INCLUDE + b"0 AL=on  # Str\xf6m\n",
+          Fails(r"is not UTF-8 text \(byte 0xf6\)", 2), "exit 2 at the line: not UTF-8 text"),
+    _lang("UTF-16 table", TABLE.decode().encode("utf-16"), Fails(r"is not UTF-8 text \(byte 0xff\)", 1),
+          "exit 2 at line 1: not UTF-8 text"),
+    _lang("non-UTF-8 bridge description",
+          _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE + b"# \xe9t\xe9\n"),
+          Fails(r"is not UTF-8 text \(byte 0xe9\)", 7, at="drive.bridge"),
+          "exit 2 naming the included file and its line"),
+    # --- valid but odd: read correctly ---------------------------------------------------
+    _lang("valid table", TABLE, _reads_table(), "read to the exact picosecond"),
+    _lang("table with a byte-order mark", b"\xef\xbb\xbf" + TABLE, _reads_table(), "read; the BOM is dropped"),
+    _lang("table with CRLF line ends", TABLE.replace(b"\n", b"\r\n"), _reads_table(), "read"),
+    _lang("table with CR-only line ends", TABLE.replace(b"\n", b"\r"), _reads_table(),
+          "read; lines counted as an editor counts them"),
+    _lang("bridge with BOM and CRLF",
+          _table(TABLE, bridge=b"\xef\xbb\xbf" + DRIVE.replace(b"\n", b"\r\n")), _reads_table(), "read"),
+    _lang("table without a final newline", TABLE.rstrip(b"\n"), _reads_table(), "read"),
+    _lang("tabs, trailing comments and absolute times",
+          INCLUDE + b"0\tAH=off\tAL=on BL=on   # start\n1us AL=off\n1.5us AH=on\n"
+          b"3.5us AH=off\n4000ns AL=on\nend 5us # done\n", _reads_table(),
+          "read; absolute and relative times give the same edges"),
+    _lang("one line of 4 MiB (a comment)", TABLE + b"#" + b"x" * (4 << 20) + b"\n", _reads_table(8),
+          "read in bounded time"),
+    _lang("a step padded with 2 MB of spaces",
+          TABLE.replace(b"+1us   AL=off", b"+1us" + b" " * 2_000_000 + b"AL=off"), _reads_table(),
+          "read in bounded time"),
+    _lang("duplicate times: settings at one instant, the last wins",
+          INCLUDE + b"0 AH=off AL=on BL=on\n1us AL=off\n1us AL=off\n1.5us AH=on\n1.5us AH=off\n"
+          b"1.5us AH=on\n3.5us AH=off\n4us AL=on\nend 5us\n", _reads_table(10),
+          "read; repeated instants keep their order and the last setting holds (no 0 ps pulse)"),
+    _lang("the same table written with a repeat block",
+          INCLUDE + b"0 AH=off AL=on BL=on\nrepeat 1 every 5us {\n  +1us AL=off\n  +500ns AH=on\n"
+          b"  +2us AH=off\n  +500ns AL=on\n}\n", _reads_table(8),
+          "read; the block expands to the same edges"),
+    _lang("repeat block whose passes take no time",
+          INCLUDE + b"0 AH=off AL=on BL=on\nrepeat 1000000 {\n  0 AL=off\n  0 AL=on\n}\n"
+          b"+1us AL=off\n+500ns AH=on\n+2us AH=off\n+500ns AL=on\nend +1us\n",
+          _reads_table(11), "read at once: two million changes at one instant leave no edge"),
+    _lang("names with markup are refused as names", _table(INCLUDE + b"0 AL=on\n",
+          bridge=b"leg A high <b>AH</b> low AL\n"), Fails(r"expected a name, found '<b>AH</b>'", 1,
+          column=12, at="drive.bridge"), "exit 2 at the name: names are letters, digits and _"),
+    # --- times ---------------------------------------------------------------------------
+    _bad_step("time NaN", b"nan AH=on", r"unknown statement 'nan'; expected a step \(a time", 1,
+              "exit 2: not a time (a step starts with a time)"),
+    _bad_step("time inf", b"inf AH=on", r"unknown statement 'inf'", 1, "exit 2: not a time"),
+    _bad_step("time -1us", b"-1us AH=on", _EXPECTED_STEP + r".*found '-1us'", 1,
+              "exit 2: times are never negative"),
+    _bad_step("time 1e999us", b"1e999us AH=on", r"'1e999us' is beyond the longest time a table may span", 1,
+              "exit 2: beyond about 53 days"),
+    _bad_step("time 1e99999999999s", b"1e99999999999s AH=on", r"duration '1e99999999999s' is out of range", 1,
+              "exit 2: out of range (never rounded)"),
+    _bad_step("time 1e-99999999999s", b"1e-99999999999s AH=on", r"out of range", 1,
+              "exit 2: out of range (never rounded to 0)"),
+    _bad_step("time 1e-30s", b"1e-30s AH=on", r"finer than the tool's 1 ps resolution", 1,
+              "exit 2: finer than 1 ps"),
+    _bad_step("time of 5,000 digits", b"1" + b"0" * 5000 + b"ps AH=on",
+              r"is beyond the longest time a table may span", 1, "exit 2: beyond about 53 days"),
+    _bad_step("time of 5,000 decimals", b"0." + b"0" * 5000 + b"1s AH=on", r"finer than|out of range", 1,
+              "exit 2: finer than 1 ps"),
+    _lang("relative times adding up past the longest span",
+          INCLUDE + b"0 AL=on\n" + b"+30d AL=off\n".replace(b"30d", b"2000000s") * 4,
+          Fails(r"'\+2000000s' is beyond the longest time a table may span", 5, column=1),
+          "exit 2 at the step that passes about 53 days"),
+    _lang("decreasing times", INCLUDE + b"0 AL=on\n2us AL=off\n1us AH=on\n",
+          Fails(r"time goes backwards: 1us is 1 us, before the previous step at 2 us", 4, column=1),
+          "exit 2 at the step: time goes backwards"),
+    _lang("end before the last step", INCLUDE + b"0 AL=on\n2us AL=off\nend 1us\n",
+          Fails(r"end at 1 us is before the last step at 2 us", 4, column=5), "exit 2 at the end line"),
+    _bad_step("time without a unit", b"5 AH=on", r"a time needs a unit \(s, ms, us, ns, ps\): write 5us", 1,
+              "exit 2: a time needs a unit"),
+    _bad_step("time with an unknown unit", b"5min AH=on", r"unknown time unit 'min' in '5min'", 1,
+              "exit 2: unknown unit"),
+    # --- names ---------------------------------------------------------------------------
+    _bad_step("unknown channel", b"0 XH=on", r"unknown channel 'XH' \(channels: AH, AL, BH, BL\)", 3,
+              "exit 2 at the setting: unknown channel, the known ones listed"),
+    _bad_step("unknown leg in A.high form", b"0 C.high=on", r"unknown leg 'C' in 'C.high'", 3,
+              "exit 2 at the setting: unknown leg"),
+    _bad_step("unknown mode", b"0 mode flying", r"unknown mode 'flying' \(modes: coast, brake\)", 8,
+              "exit 2 at the name: unknown mode, the known ones listed"),
+    _bad_step("channel set twice in one step", b"0 AH=on AH=off", r"channel AH is set twice in one step", 9,
+              "exit 2 at the second setting"),
+    _lang("channel in two legs", _table(INCLUDE + b"0 AL=on\n",
+          bridge=b"leg A high AH low AL\nleg B high AH low BL\n"),
+          Fails(r"channel 'AH' is already in leg A \(line 1\); a channel drives one switch", 2,
+                column=12, at="drive.bridge"),
+          "exit 2 at the second leg, naming the first"),
+    _lang("leg defined twice", INCLUDE + b"leg A high XH low XL\n0 AL=on\n",
+          Fails(r"leg 'A' is already defined", 2, column=5), "exit 2 at the second definition"),
+    _lang("markup and quotes in a setting", INCLUDE + b'0 <AH>="on"\n',
+          Fails(r"expected switch settings such as AH=on BL=off or 'mode', found '<AH>=", 2, column=3),
+          "exit 2 at the column: not a setting"),
+    _bad_step("quoted value", b'0 AH="on"', _SETTING + r", not '\"on\"'", 3, "exit 2: on, off, 1 or 0"),
+    _bad_step("control characters after a step", b"0 AH=on\x1b[31m", r"expected the end of the line, found '\\x1b\[31m'", 8,
+              "exit 2; the escape sequence is shown escaped"),
+    _bad_step("form feed inside a step", b"0 AH=on\x0cAL=off", r"expected the end of the line, found '\\x0c'", 8,
+              "exit 2 at the column; a form feed does not end a line"),
+    _bad_step("Unicode line separator inside a step", "0 AH=on\u2028AL=off".encode(),
+              r"expected the end of the line, found '\\u2028'", 8,
+              "exit 2 at the column; lines end only at LF, CRLF or CR, as editors count them"),
+    # --- includes ------------------------------------------------------------------------
+    _lang("table naming a missing bridge file", _files("table.steps", table_steps=b'include "absent.bridge"\n0 AL=on\n'),
+          Fails(r"bridge file 'absent.bridge' not found", 1, column=9), "exit 2 at the include"),
+    _lang("include of an empty name", _files("table.steps", table_steps=b'include ""\n0 AL=on\n'),
+          Fails(r"bridge file '' not found", 1, column=9), "exit 2 at the include"),
+    _lang("table including itself", _files("table.steps", table_steps=b'include "table.steps"\n0 AL=on\n'),
+          Fails(r"include 'table.steps' includes itself", 1, column=9), "exit 2 at the include"),
+    _lang("cycle of includes through two bridges",
+          _files("table.steps", table_steps=b'include "one.bridge"\n0 AL=on\n',
+                 one_bridge=b'include "two.bridge"\n', two_bridge=b'include "one.bridge"\nleg A high AH low AL\n'),
+          Fails(r"include 'one.bridge' includes itself \(directly or through another file\)", 1,
+                column=9, at="two.bridge"), "exit 2 at the include that closes the cycle"),
+    _lang("table including a table", _files("table.steps", table_steps=b'include "other.steps"\n0 AL=on\n',
+          other_steps=b"leg A high AH low AL\n0 AL=on\n"),
+          Fails(r"a bridge description holds no steps", 2, column=1, at="other.steps"),
+          "exit 2 at the first step of the included file"),
+    # --- repeat blocks -------------------------------------------------------------------
+    _lang("repeat count zero", INCLUDE + b"0 AL=on\nrepeat 0 {\n+1us AH=on\n}\n",
+          Fails(r"repeat count must be at least 1, not 0", 3, column=8), "exit 2 at the count"),
+    _lang("repeat count of 5,000 digits", INCLUDE + b"0 AL=on\nrepeat 1" + b"0" * 5000 + b" {\n+1us AH=on\n}\n",
+          Fails(r"repeat count of 5,001 digits", 3, column=8), "exit 2 at the count, at once"),
+    _lang("repeat 10^20 passes", INCLUDE + b"0 AL=on\nrepeat 100000000000000000000 {\n+1ns AH=on\n}\n",
+          Fails(r"repeat count of 21 digits", 3, column=8), "exit 2 at once (never expanded)"),
+    _lang("repeat past the longest span", INCLUDE + b"0 AL=on\nrepeat 999999999999999999 every 1us {\n0 AH=on\n+1ns AH=off\n}\n",
+          Fails(r"this repeat runs past the longest time a table may span", 3, column=1),
+          "exit 2 at the block, at once"),
+    _lang("repeat of 40 million passes", INCLUDE + b"0 AL=on\nrepeat 40000000 every 1us {\n0 AH=on\n+1ns AH=off\n}\n",
+          Fails(r"expands the table to 80,000,001 switch changes, more than the 50,000,000", 3, column=1),
+          "exit 2 at the block before any memory is used"),
+    _lang("1,000 nested repeat blocks of one pass", _nested_repeats(1000, 1),
+          Reads(2004, {"AH": (0, [(1_000, 1), (2_000, 0)]), "AL": (1, []), "BH": (0, []), "BL": (0, [])}, 0, 2_000),
+          "read; nesting depth costs no stack"),
+    _lang("three nested blocks of 1,000 passes", _nested_repeats(3, 1000),
+          Fails(r"expands the table to 2,000,000,001 switch changes, more than the 50,000,000", 3, column=1),
+          "exit 2 at the outer block, before any memory is used"),
+    _lang("repeat block never closed", INCLUDE + b"0 AL=on\nrepeat 3 {\n+1us AH=on\n",
+          Fails(r"this repeat block is never closed with '}'", 3, column=1), "exit 2 at the block"),
+    _lang("'}' closing no block", INCLUDE + b"0 AL=on\n}\n", Fails(r"'}' closes no repeat block", 3, column=1),
+          "exit 2 at the brace"),
+    _lang("empty repeat block", INCLUDE + b"0 AL=on\nrepeat 3 {\n}\n",
+          Fails(r"this repeat block holds no steps", 3, column=1), "exit 2 at the block"),
+    _lang("repeat without its brace", INCLUDE + b"0 AL=on\nrepeat 3 every 1us\n0 AH=on\n}\n",
+          Fails(r"expected '\{', found the end of the line", 3, column=19), "exit 2 at the end of the line"),
+    _lang("repeat with every but no period", INCLUDE + b"0 AL=on\nrepeat 3 every {\n0 AH=on\n}\n",
+          Fails(r"expected a duration such as 500ns, found '\{'", 3, column=16), "exit 2 at the brace"),
+    _lang("repeat block on one line", INCLUDE + b"0 AL=on\nrepeat 3 every 1us { 0 AH=on }\n",
+          Fails(r"expected the end of the line, found '0'", 3, column=22), "exit 2: one statement a line"),
+    _lang("step past the repeat period", INCLUDE + b"0 AL=on\nrepeat 3 every 1us {\n2us AH=on\n}\n",
+          Fails(r"past the repeat period", 4, column=1), "exit 2 at the step"),
+    _lang("end inside a repeat block", INCLUDE + b"0 AL=on\nrepeat 3 {\n+1us AH=on\nend +1us\n}\n",
+          Fails(r"'end' belongs at the top level", 5, column=5), "exit 2 at the end"),
+    _lang("step after end", INCLUDE + b"0 AL=on\nend 1us\n+1us AH=on\n",
+          Fails(r"nothing may follow 'end' \(line 3\)", 4, column=1), "exit 2 at the step"),
+    # --- modes ---------------------------------------------------------------------------
+    _lang("mode nested in 5,000 brackets", _table(INCLUDE + b"0 mode m\n",
+          bridge=b"leg A high AH low AL\nmode m = " + b"(" * 5000 + b"AH" + b")" * 5000 + b"\n"),
+          Reads(2, {"AH": (1, []), "AL": (0, [])}, 0, 0), "read: brackets alone add no depth"),
+    _lang("mode of 5,000 nested nots", _table(INCLUDE + b"0 mode m\n",
+          bridge=b"leg A high AH low AL\nmode m = " + b"not " * 5000 + b"AH\n"),
+          Fails(r"mode m: the expression nests deeper than 100 levels", 2, column=6, at="drive.bridge"),
+          "exit 2 at the mode"),
+    _lang("chain of 3,000 modes each negating the last", _files("chain.steps",
+          chain_steps=b'include "chain.bridge"\n0 AH=on\n+1us AH=off\n',
+          chain_bridge=_mode_chain(3000, "not {p}")[len(INCLUDE):]),
+          Fails(r"mode m101: with the modes it uses put in place, the expression nests deeper", 103,
+                column=6, at="chain.bridge"),
+          "exit 2 at the first mode too deep (a deep mode used only by the checks would overflow the stack)"),
+    _lang("modes doubling the mode before", _files("chain.steps",
+          chain_steps=b'include "chain.bridge"\n0 AH=on\n+1us AH=off\n',
+          chain_bridge=_mode_chain(60, "{p} and {p}")[len(INCLUDE):]),
+          Fails(r"mode m13: with the modes it uses put in place, the expression grows past 10,000 terms", 15,
+                column=6, at="chain.bridge"),
+          "exit 2 at the first mode too large (2^60 terms would never finish evaluating)"),
+    # --- syntax errors -------------------------------------------------------------------
+    _bad_step("setting with a bad value", b"0 AH=maybe", _SETTING + r", not 'maybe'", 3, "exit 2 at the setting"),
+    _bad_step("setting without a value", b"0 AH", _SETTING + r", such as AH=on", 3, "exit 2 at the setting"),
+    _bad_step("spaces around =", b"0 AH = on", r"write settings without spaces around '=', such as AH=on", 3,
+              "exit 2 at the setting"),
+    _bad_step("stray tokens after a step", b"0 AH=on }}", r"expected the end of the line, found '}}'", 9,
+              "exit 2 at the stray token"),
+    _bad_step("stray semicolon after a step", b"0 AH=on ;", r"expected the end of the line, found ';'", 9,
+              "exit 2 at the stray token"),
+    _bad_step("mode without a name", b"0 mode", r"expected a name, found the end of the line", 7,
+              "exit 2 at the end of the line"),
+    _bad_step("unknown statement", b"wait 5us", r"unknown statement 'wait'", 1, "exit 2 at the word"),
+    _lang("leg missing its low side", _table(INCLUDE + b"0 AL=on\n", bridge=b"leg A high AH\n"),
+          Fails(r"expected 'low', found the end of the line", 1, column=14, at="drive.bridge"),
+          "exit 2 at the end of the line"),
+    _lang("include without quotes", _files("table.steps", table_steps=b"include drive.bridge\n0 AL=on\n"),
+          Fails(r'expected a file name in double quotes', 1, column=9), "exit 2 at the name"),
+    _lang("dead-time without a unit", _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE + b"dead-time 500\n"),
+          Fails(r"a time needs a unit", 7, column=11, at="drive.bridge"), "exit 2 at the value"),
+    _lang("bootstrap value in the wrong unit", _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE
+          + b"bootstrap A capacitance 100nC gate-charge 54nC leakage 115uA supply 12V diode-drop 0.85V min-vgs 6V\n"),
+          Fails(r"capacitance is in farads, such as 100nF, not '100nC'", 7, at="drive.bridge", column=25),
+          "exit 2 at the value"),
+    _lang("mode expression cut short", _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE + b"mode m = AH and\n"),
+          Fails(r"expected .*found the end of the line", 7, at="drive.bridge", column=16),
+          "exit 2 at the end of the line"),
+    _lang("unclosed bracket in a mode", _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE + b"mode m = (AH and AL\n"),
+          Fails(r"expected .*'\)'.*found the end of the line", 7, at="drive.bridge", column=20),
+          "exit 2 at the end of the line"),
+    _lang("mode naming an unknown switch", _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE + b"mode m = XH\n"),
+          Fails(r"mode m: 'XH' is neither a switch channel nor an earlier mode", 7, at="drive.bridge", column=10),
+          "exit 2 at the name"),
+    _lang("transition to an unknown mode", _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE + b"allow coast -> flying\n"),
+          Fails(r"unknown mode 'flying'", 7, at="drive.bridge", column=16), "exit 2 at the name"),
+    _lang("step inside a bridge description", _table(INCLUDE + b"0 AL=on\n", bridge=DRIVE + b"0 AH=on\n"),
+          Fails(r"a bridge description holds no steps", 7, at="drive.bridge", column=1), "exit 2 at the step"),
+    _lang("bridge statement after the first step", INCLUDE + b"0 AL=on\nleg C high CH low CL\n",
+          Fails(r"bridge statements .* come before the first step \(line 2\)", 3, column=1), "exit 2 at the statement"),
+]
+CASES += LANGUAGE_CASES
 
 
 def markdown_table(cases: list[Case] = CASES) -> str:

@@ -38,8 +38,23 @@ def _skip_as_root(case: Case) -> None:
         pytest.skip(case.skip_as_root)
 
 
+def _cli_in_process(args: tuple[str, ...]) -> subprocess.CompletedProcess[str]:
+    """The CLI's ``run()`` in this process, its output captured like a subprocess's."""
+    import contextlib
+    import io
+
+    from sequencecheck.cli import run
+
+    out, err = io.StringIO(), io.StringIO()
+    with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+        status = run(list(args))
+    return subprocess.CompletedProcess(args, status, out.getvalue(), err.getvalue())
+
+
 def _cli(case: Case, path: Path) -> subprocess.CompletedProcess[str]:
     args = ("check", str(path), *case.args, "--format", "json")
+    if not case.subprocess and case.timeout is None:
+        return _cli_in_process(args)
     if case.timeout is None:
         return run_cli(*args)
     env = dict(os.environ, PYTHONPATH=str(ROOT), NO_COLOR="1")
@@ -57,9 +72,13 @@ def _cli(case: Case, path: Path) -> subprocess.CompletedProcess[str]:
 
 def _check_message(text: str, path: Path, expect: Fails) -> None:
     """The shared promises of an error message: place, wording, one printable line."""
+    if expect.at is not None:  # the error is in another file (an included bridge)
+        path = path.parent / expect.at
     shown = str(path).replace("\n", "\\n")  # a newline in the path is shown escaped
     if expect.usage:
         prefix = ""
+    elif expect.line is not None and expect.column is not None:
+        prefix = f"{shown}:{expect.line}:{expect.column}: "
     elif expect.line is not None:
         prefix = f"{shown}:{expect.line}: "
     else:
@@ -117,8 +136,9 @@ def test_read(case: Case, tmp_path: Path) -> None:
     if isinstance(case.expect, Fails):
         with pytest.raises(InputError) as err:
             read(str(path), **case.read_options)
-        assert err.value.path == str(path)
-        assert err.value.line == case.expect.line
+        named = path if case.expect.at is None else path.parent / case.expect.at
+        assert err.value.path == str(named)
+        assert (err.value.line, err.value.column) == (case.expect.line, case.expect.column)
         _check_message(str(err.value), path, case.expect)
         return
     assert isinstance(case.expect, Reads)

@@ -1,0 +1,187 @@
+"""Coverage-guided fuzzing of the bridge language (tables and bridge descriptions) with atheris.
+
+Not run in CI. Each input is written to a scratch folder next to a valid bridge
+description (``drive.bridge``, a copy of samples/cart.bridge). The first byte picks
+what the rest is: even, a table (``input.steps``) read with ``read_table``; odd, a
+bridge description (``input.bridge``) that a fixed valid table includes. Anything
+raised other than InputError/UsageError is a crash, and so is any warning, an error
+message of more than one line, and an input that takes more than ``SLOW`` seconds.
+Each distinct crash (exception type, message shape, innermost frame) is recorded
+once in ``--out``/crashes with its input, and the campaign goes on.
+
+    python fuzz/fuzz_table.py --minutes 5
+    python fuzz/fuzz_table.py --replay fuzz/out-table/crashes
+"""
+
+from __future__ import annotations
+
+import argparse
+import hashlib
+import os
+import re
+import shutil
+import sys
+import tempfile
+import time
+import traceback
+import warnings
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+ROOT = HERE.parent
+sys.path.insert(0, str(ROOT))
+
+SLOW = 2.0  # seconds one input may take
+TABLE = b'include "input.bridge"\n0 mode coast\n+1us AL=on BL=on\n+2us AL=off\n+500ns AH=on\n'
+SEEDS = [
+    b'include "drive.bridge"\n0 AH=off AL=on\n+1us AL=off\n+500ns AH=on\nend +1us\n',
+    b'include "drive.bridge"\n0 mode coast\nrepeat 3 every 50us {\n  0 AL=off\n  +750ns AH=on\n'
+    b"  30us AH=off\n  +750ns AL=on\n}\n+10us mode brake\n",
+    b"leg A high AH low AL\nactive-low AL\ndead-time 500ns\nmode on = A.high and not A.low\n"
+    b"0 A.low=0\n+1us A.low=1 # off\n+0.5us mode on\n",
+    b'include "drive.bridge"\nrepeat 2 {\n repeat 2 every 1us {\n  0 BL=on\n  +100ns BL=off\n }\n}\n',
+]
+BRIDGE_SEEDS = [
+    b"leg A high AH low AL\nleg B high BH low BL\ndead-time B high-to-low 500ns low-to-high 600ns\n"
+    b"mode coast = not (A.high or A.low or B.high or B.low)\nmode brake = A.low and B.low\n"
+    b"allow brake -> * after 2us\nforbid coast -> coast\ndwell brake 1us\n",
+    b"leg A high AH low AL\nleg B high BH low BL\nmode coast = not (AH or AL or BH or BL)\n"
+    b"mode brake = AL and BL\ntiming A driver-delay 20ns to 45ns rise 8ns fall 35ns\n"
+    b"bootstrap A capacitance 100nF gate-charge 54nC leakage 115uA supply 12V diode-drop 0.85V "
+    b"min-vgs 6V resistance 10ohm\nscheme sign-magnitude\n",
+]
+
+_seen: dict[str, int] = {}
+_out = HERE / "out-table"
+_stats = {"inputs": 0, "input_errors": 0, "usage_errors": 0, "read": 0, "slowest_ms": 0}
+_folder = ""
+_started = time.monotonic()
+_last_summary = 0.0
+
+
+def _signature(exc: BaseException) -> str:
+    frames = [f for f in traceback.extract_tb(exc.__traceback__) if "sequencecheck" in f.filename]
+    where = f"{Path(frames[-1].filename).name}:{frames[-1].lineno}" if frames else "?"
+    shape = re.sub(r"\d+", "N", str(exc))[:80]
+    return f"{type(exc).__name__} at {where}: {shape}"
+
+
+def test_one_input(data: bytes) -> None:
+    from sequencecheck.errors import InputError, UsageError
+    from sequencecheck.language import read_table
+
+    _stats["inputs"] += 1
+    flag, body = (data[0], data[1:]) if data else (0, b"")
+    table = os.path.join(_folder, "input.steps")
+    with open(os.path.join(_folder, "input.bridge"), "wb") as f:
+        f.write(body if flag & 1 else b"")
+    with open(table, "wb") as f:
+        f.write(TABLE if flag & 1 else body)
+    started = time.monotonic()
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        try:
+            read_table(table)
+            _stats["read"] += 1
+        except InputError as e:
+            _stats["input_errors"] += 1
+            if "\n" in str(e):
+                _record(AssertionError(f"multi-line error: {e!s}"), data)
+        except UsageError:
+            _stats["usage_errors"] += 1
+        except Exception as e:  # every other exception is a crash
+            _record(e, data)
+    took = time.monotonic() - started
+    _stats["slowest_ms"] = max(_stats["slowest_ms"], int(took * 1000))
+    if took > SLOW:
+        _record(AssertionError(f"slow input: {took:.1f} s"), data)
+    for w in caught:
+        _record(AssertionError(f"{w.category.__name__}: {w.message}"), data)
+    global _last_summary
+    if time.monotonic() - _last_summary > 5:
+        _last_summary = time.monotonic()
+        _out.mkdir(parents=True, exist_ok=True)
+        (_out / "summary.txt").write_text(_summary_text())
+
+
+def _record(exc: BaseException, data: bytes) -> None:
+    sig = _signature(exc)
+    _seen[sig] = _seen.get(sig, 0) + 1
+    if _seen[sig] == 1:
+        crashes = _out / "crashes"
+        crashes.mkdir(parents=True, exist_ok=True)
+        name = hashlib.sha1(data).hexdigest()[:12]
+        (crashes / f"crash-{name}.bin").write_bytes(data)
+        (crashes / f"crash-{name}.txt").write_text(
+            sig + "\n\n" + "".join(traceback.format_exception(exc))
+        )
+        print(f"\n[new crash kind #{len(_seen)}] {sig}", file=sys.stderr, flush=True)
+
+
+def _summary_text() -> str:
+    lines = [
+        f"fuzz summary: {_stats['inputs']:,} inputs in {time.monotonic() - _started:.0f} s; "
+        f"read {_stats['read']:,}, input errors {_stats['input_errors']:,}, "
+        f"usage errors {_stats['usage_errors']:,}; slowest input {_stats['slowest_ms']:,} ms; "
+        f"distinct crash kinds {len(_seen)}"
+    ]
+    lines += [f"  {n:>8,}  {sig}" for sig, n in sorted(_seen.items(), key=lambda kv: -kv[1])]
+    return "\n".join(lines) + "\n"
+
+
+def main() -> None:
+    global _out, _folder, _started
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--minutes", type=float, default=5.0, help="campaign length")
+    parser.add_argument("--out", default=str(HERE / "out-table"), help="crashes, corpus, summary")
+    parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
+    args, extra = parser.parse_known_args()
+    _out = Path(args.out)
+    _folder = tempfile.mkdtemp(
+        prefix="fuzz-table-", dir="/dev/shm" if os.path.isdir("/dev/shm") else None
+    )
+    shutil.copy(ROOT / "samples" / "cart.bridge", os.path.join(_folder, "drive.bridge"))
+    _started = time.monotonic()
+    try:
+        if args.replay:
+            for p in sorted(Path(args.replay).glob("*.bin")):
+                test_one_input(p.read_bytes())
+            return
+        import atheris
+
+        with atheris.instrument_imports():
+            import lark  # noqa: F401
+
+            import sequencecheck.language._loader
+            import sequencecheck.language._statements  # noqa: F401
+
+        corpus = _out / "corpus"
+        corpus.mkdir(parents=True, exist_ok=True)
+        for i, seed in enumerate(SEEDS):
+            (corpus / f"seed-table-{i}").write_bytes(b"\0" + seed)
+        for i, seed in enumerate(BRIDGE_SEEDS):
+            (corpus / f"seed-bridge-{i}").write_bytes(b"\1" + seed)
+        for sample in sorted((ROOT / "samples").glob("*.steps")):
+            text = sample.read_bytes().replace(b'"cart.bridge"', b'"drive.bridge"')
+            (corpus / f"sample-{sample.stem}").write_bytes(b"\0" + text)
+        (corpus / "sample-cart-bridge").write_bytes(
+            b"\1" + (ROOT / "samples" / "cart.bridge").read_bytes()
+        )
+        libfuzzer = [
+            sys.argv[0],
+            f"-max_total_time={int(args.minutes * 60)}",
+            "-max_len=4096",
+            "-timeout=20",
+            "-rss_limit_mb=4096",
+            *[a for a in extra if a != "--"],
+            str(corpus),
+        ]
+        atheris.Setup(libfuzzer, test_one_input)
+        atheris.Fuzz()
+    finally:
+        print(_summary_text(), file=sys.stderr)
+        shutil.rmtree(_folder, ignore_errors=True)
+
+
+if __name__ == "__main__":
+    main()
