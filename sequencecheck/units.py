@@ -15,6 +15,7 @@ from .errors import UsageError
 
 __all__ = [
     "PS_PER_UNIT",
+    "DurationRangeError",
     "format_duration",
     "format_time",
     "parse_duration",
@@ -34,6 +35,12 @@ PS_PER_UNIT: dict[str, int] = {
     "s": 1_000_000_000_000,
 }
 _UNITS = {k: v for k, v in PS_PER_UNIT.items() if v}
+
+
+class DurationRangeError(UsageError):
+    """A duration beyond what int64 picoseconds hold (callers may word their own limit)."""
+
+
 #: The longest time the tool represents: int64 picoseconds (about 106 days).
 MAX_PS = 2**63 - 1
 
@@ -77,12 +84,16 @@ def parse_duration(text: str, *, what: str = "duration", allow_negative: bool = 
         with localcontext(_EXACT):
             value = Decimal(number) * _UNITS[unit]
             exact = value == value.to_integral_value()
-    except ArithmeticError:  # overflow or underflow on absurd exponents
-        raise UsageError(f"{what} {_short(text)} is out of range") from None
+    except Overflow:  # absurd exponents (Overflow is also Inexact: caught first)
+        raise DurationRangeError(f"{what} {_short(text)} is out of range") from None
+    except (Underflow, Inexact):  # absurdly small, or more digits than any real limit
+        raise UsageError(
+            f"{what} {_short(text)} is finer than the tool's 1 ps resolution"
+        ) from None
     if not exact:
         raise UsageError(f"{what} {text!r} is finer than the tool's 1 ps resolution")
     if abs(value) > MAX_PS:
-        raise UsageError(f"{what} {_short(text)} is out of range (at most about 106 days)")
+        raise DurationRangeError(f"{what} {_short(text)} is out of range (at most about 106 days)")
     ps = int(value)
     if ps < 0 and not allow_negative:
         raise UsageError(f"{what} must not be negative: {text!r}")

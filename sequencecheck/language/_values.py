@@ -10,7 +10,7 @@ import re
 from decimal import Decimal
 
 from ..errors import InputError, UsageError
-from ..units import PS_PER_UNIT, parse_duration
+from ..units import PS_PER_UNIT, DurationRangeError, parse_duration
 
 __all__ = ["MAX_PS", "QUANTITY_UNITS", "Where", "check_range", "duration_ps", "quantity", "time_ps"]
 
@@ -47,6 +47,8 @@ def duration_ps(text: str, where: Where, what: str = "duration") -> int:
     path, line, column = where
     try:
         ps = parse_duration(text, what=what)
+    except DurationRangeError:
+        ps = MAX_PS + 1  # worded below as this language's own limit
     except UsageError as e:
         raise InputError(str(e), path=path, line=line, column=column) from None
     except (ArithmeticError, ValueError):  # an exponent or a digit count beyond any int
