@@ -67,6 +67,7 @@ class Case:
     skip_as_root: str | None = None  # root ignores file permissions
     in_process: bool = True  # False when read() itself would block (a FIFO)
     timeout: float | None = None  # CLI time limit, for cases that could hang
+    cli: bool = True  # False: read() only, where a sibling case already takes the CLI path
     subprocess: bool = True  # False: the CLI runs in this process (same code, no start-up cost)
 
     def make(self, folder: Path) -> Path:
@@ -658,6 +659,8 @@ CASES: list[Case] = [
         "read; every edge kept across block borders (levels carried over)",
     ),
 ]
+
+CASES += __import__("catalogue_vcd").vcd_cases(Case, Fails, Reads)  # the VCD reader's entries
 
 
 def _write(folder: Path, data: bytes) -> Path:

@@ -90,7 +90,7 @@ def _check_message(text: str, path: Path, expect: Fails) -> None:
     assert len(text) - len(prefix) <= MAX_MESSAGE, f"message of {len(text):,} characters"
 
 
-@pytest.mark.parametrize("case", _params(CASES))
+@pytest.mark.parametrize("case", _params([c for c in CASES if c.cli]))
 def test_cli(case: Case, tmp_path: Path) -> None:
     _skip_as_root(case)
     path = case.make(tmp_path)

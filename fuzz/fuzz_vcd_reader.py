@@ -1,0 +1,210 @@
+"""Coverage-guided fuzzing of the VCD reader with atheris (not run in CI).
+
+Every input is written to a scratch file and read with ``read_vcd``. The first byte picks
+the options: a small read chunk (so chunk borders fall everywhere), the general line
+parser instead of the numpy fast path, and a named channel selection. Crashes are:
+any exception other than InputError/UsageError, any warning, an error message of more
+than one line or naming no line (except the empty file, catalogued), and -- the
+differential oracle -- a result that differs from the plain reading (default chunk,
+fast path) of the same bytes: other edges, rows or time span, or another error line.
+Each distinct crash kind is recorded once in ``<out>/crashes`` with its input.
+
+    python fuzz/fuzz_vcd_reader.py --minutes 5 [-- -dict=fuzz/vcd.dict]
+    python fuzz/fuzz_vcd_reader.py --replay fuzz/out-vcd/crashes
+"""
+
+from __future__ import annotations
+
+import argparse
+import hashlib
+import os
+import re
+import shutil
+import sys
+import tempfile
+import time
+import traceback
+import warnings
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+ROOT = HERE.parent
+sys.path.insert(0, str(ROOT))
+
+SEEDS = [
+    b"$timescale 1 ns $end\n$scope module pump $end\n$var wire 1 ! AH $end\n"
+    b'$var wire 1 " AL $end\n$upscope $end\n$enddefinitions $end\n'
+    b'#0\n$dumpvars\n0!\n1"\n$end\n#100\n0"\n#200\n1!\n#300\n0!\n#400\n1"\n#500\n',
+    b"$timescale 10fs $end\n$scope module m $end\n$var wire 4 # bus [3:0] $end\n"
+    b"$var wire 1 AB AH $end\n$var real 64 % v $end\n$upscope $end\n$enddefinitions $end\n"
+    b"#0\nb1 #\n1AB\nr1.5 %\n#100\nbx1 #\n0AB\n#200\n$dumpoff\nx#\nxAB\n$end\n#300\n"
+    b"$dumpon\nbz #\nzAB\n$end\n",
+    b"$date x $end $version y $end $comment z $end $timescale 100 ps $end\r\n"
+    b"$scope module top $end $var wire 1 # AH $end $var wire 1 #1 AL $end\r\n"
+    b"$upscope $end $enddefinitions $end\r\n#0 0# 1#1 #5 1# 0#1 #7 b0\r\n#\r\n",
+]
+
+_seen: dict[str, int] = {}
+_out = HERE / "out-vcd"
+_stats = {"inputs": 0, "input_errors": 0, "usage_errors": 0, "read": 0}
+_scratch = ""
+_started = time.monotonic()
+_last_summary = 0.0
+
+
+def _options(flag: int) -> dict[str, object]:
+    options: dict[str, object] = {}
+    if flag & 0b11:
+        options["chunk_bytes"] = (1, 7, 64)[(flag & 0b11) - 1]
+    if flag & 0b100:
+        options["channels"] = ["AH", "bus[0]"] if flag & 0b1000 else ["AH"]
+    return options
+
+
+def _signature(exc: BaseException) -> str:
+    frames = [f for f in traceback.extract_tb(exc.__traceback__) if "sequencecheck" in f.filename]
+    where = f"{Path(frames[-1].filename).name}:{frames[-1].lineno}" if frames else "?"
+    shape = re.sub(r"\d+", "N", re.sub(r"'[^']*'", "'...'", str(exc)))[:80]
+    return f"{type(exc).__name__} at {where}: {shape}"
+
+
+def _outcome(options: dict[str, object], fast: bool) -> tuple:
+    """What one reading gives: edges and span, or the error's line and message."""
+    from sequencecheck.errors import InputError, UsageError
+    from sequencecheck.readers._vcd import read_vcd
+    from sequencecheck.readers._vcd_body import VcdBody
+
+    VcdBody.fast_path = fast
+    try:
+        tr = read_vcd(_scratch, **options)  # type: ignore[arg-type]
+    except InputError as e:
+        return ("error", e.line, e.message)
+    except UsageError as e:
+        return ("usage", str(e))
+    finally:
+        VcdBody.fast_path = True
+    chans = {n: (c.initial, c.times.tolist(), c.levels.tolist()) for n, c in tr.channels.items()}
+    return ("read", tr.rows, tr.start_ps, tr.end_ps, chans)
+
+
+def test_one_input(data: bytes) -> None:
+    _stats["inputs"] += 1
+    flag, body = (data[0], data[1:]) if data else (0, b"")
+    with open(_scratch, "wb") as f:
+        f.write(body)
+    options = _options(flag)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        try:
+            got = _outcome(options, fast=not flag & 0b10000)
+            kind = got[0]
+            _stats[{"read": "read", "error": "input_errors", "usage": "usage_errors"}[kind]] += 1
+            if kind == "error":
+                if "\n" in got[2]:
+                    _record(AssertionError(f"multi-line error: {got[2]}"), data)
+                elif (
+                    got[1] is None and body and "channel" not in got[2] and "variable" not in got[2]
+                ):
+                    _record(AssertionError(f"error naming no line: {got[2]}"), data)
+            if options.get("chunk_bytes") or flag & 0b10000:
+                plain = {k: v for k, v in options.items() if k != "chunk_bytes"}
+                reference = _outcome(plain, fast=True)
+                if reference != got:
+                    _record(
+                        AssertionError(
+                            f"differs from the plain reading: {_diff(got, reference)}"
+                            f"{' (input holds NUL bytes)' if 0 in body else ''}"
+                        ),
+                        data,
+                    )
+        except Exception as e:  # every other exception is a crash
+            _record(e, data)
+    for w in caught:
+        _record(AssertionError(f"{w.category.__name__}: {w.message}"), data)
+    global _last_summary
+    if time.monotonic() - _last_summary > 5:
+        _last_summary = time.monotonic()
+        _out.mkdir(parents=True, exist_ok=True)
+        (_out / "summary.txt").write_text(_summary_text())
+
+
+def _diff(a: tuple, b: tuple) -> str:
+    if a[0] != b[0]:
+        return f"{a[0]} vs {b[0]}"
+    if a[0] == "error":
+        return "another error" if a[1] == b[1] else "another error line"
+    return "other rows/span" if a[1:4] != b[1:4] else "other edges"
+
+
+def _record(exc: BaseException, data: bytes) -> None:
+    sig = _signature(exc)
+    _seen[sig] = _seen.get(sig, 0) + 1
+    if _seen[sig] == 1:
+        crashes = _out / "crashes"
+        crashes.mkdir(parents=True, exist_ok=True)
+        name = hashlib.sha1(data).hexdigest()[:12]
+        (crashes / f"crash-{name}.bin").write_bytes(data)
+        (crashes / f"crash-{name}.txt").write_text(
+            sig + "\n\n" + "".join(traceback.format_exception(exc))
+        )
+        print(f"\n[new crash kind #{len(_seen)}] {sig}", file=sys.stderr, flush=True)
+
+
+def _summary_text() -> str:
+    lines = [
+        f"fuzz summary: {_stats['inputs']:,} inputs in {time.monotonic() - _started:.0f} s; "
+        f"read {_stats['read']:,}, input errors {_stats['input_errors']:,}, "
+        f"usage errors {_stats['usage_errors']:,}; distinct crash kinds {len(_seen)}"
+    ]
+    lines += [f"  {n:>8,}  {sig}" for sig, n in sorted(_seen.items(), key=lambda kv: -kv[1])]
+    return "\n".join(lines) + "\n"
+
+
+def main() -> None:
+    global _out, _scratch, _started
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--minutes", type=float, default=5.0, help="campaign length")
+    parser.add_argument("--out", default=str(HERE / "out-vcd"), help="crashes, corpus, summary")
+    parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
+    args, extra = parser.parse_known_args()
+    _out = Path(args.out)
+    scratch_dir = tempfile.mkdtemp(
+        prefix="fuzz-vcd-", dir="/dev/shm" if os.path.isdir("/dev/shm") else None
+    )
+    _scratch = os.path.join(scratch_dir, "input.vcd")
+    _started = time.monotonic()
+    try:
+        if args.replay:
+            for p in sorted(Path(args.replay).glob("*.bin")):
+                test_one_input(p.read_bytes())
+            return
+        import atheris
+
+        with atheris.instrument_imports():
+            import sequencecheck.readers._vcd
+            import sequencecheck.readers._vcd_body
+            import sequencecheck.readers._vcd_header  # noqa: F401
+
+        corpus = _out / "corpus"
+        corpus.mkdir(parents=True, exist_ok=True)
+        for i, seed in enumerate(SEEDS):
+            for flag in (0, 1, 2, 3, 4, 12, 16, 17):
+                (corpus / f"seed-{i}-{flag}").write_bytes(bytes([flag]) + seed)
+        libfuzzer = [
+            sys.argv[0],
+            f"-max_total_time={int(args.minutes * 60)}",
+            "-max_len=4096",
+            "-timeout=20",
+            "-rss_limit_mb=4096",
+            *[a for a in extra if a != "--"],
+            str(corpus),
+        ]
+        atheris.Setup(libfuzzer, test_one_input)
+        atheris.Fuzz()
+    finally:
+        print(_summary_text(), file=sys.stderr)
+        shutil.rmtree(scratch_dir, ignore_errors=True)
+
+
+if __name__ == "__main__":
+    main()
