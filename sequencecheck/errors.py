@@ -5,10 +5,13 @@
      └── UsageError (also ValueError)   bad flags or arguments -> exit 2
 
 Findings are never errors: they are data in a Report.  An InputError prints as
-``path:line:column: message`` (parts that are unknown are left out).
+``path:line:column: message`` (parts that are unknown are left out), always one
+line: control characters in the path and message print as escapes (``\\x1b``).
 """
 
 from __future__ import annotations
+
+from ._printable import clip_middle, printable
 
 __all__ = ["InputError", "SequenceCheckError", "UsageError"]
 
@@ -39,8 +42,10 @@ class InputError(SequenceCheckError, ValueError):
         super().__init__(str(self))
 
     def __str__(self) -> str:
-        where = [str(p) for p in (self.path, self.line, self.column) if p is not None]
-        text = " ".join(self.message.split())  # always one line
+        where = [printable(p) for p in (self.path, self.line, self.column) if p is not None]
+        # always one printable line of bounded length: control characters (also in the
+        # path) become visible escapes, and a very long message keeps its start and end
+        text = clip_middle(printable(" ".join(self.message.split())))
         return ":".join([*where, " " + text]) if where else text
 
 

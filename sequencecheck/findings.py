@@ -123,10 +123,29 @@ class InputReport:
     margins: tuple[WorstMargin, ...] = ()
     error: str | None = None
     extra: Mapping[str, Any] = field(default_factory=dict)
+    #: leg name -> (high-side channel, low-side channel), in the legs' order
+    leg_channels: Mapping[str, tuple[str, str]] = field(default_factory=dict)
+    #: channels of the input that belong to no leg: read, but not checked
+    unchecked_channels: tuple[str, ...] = ()
+    #: (rule, leg) -> violations counted but not listed in ``findings`` (Policy.max_findings_per_rule)
+    unlisted: Mapping[tuple[str, str | None], int] = field(default_factory=dict)
 
     @property
     def violations(self) -> tuple[Finding, ...]:
+        """The violations listed; ``violation_count`` also counts the unlisted ones."""
         return tuple(f for f in self.findings if f.is_violation)
+
+    @property
+    def violation_count(self) -> int:
+        """Every violation found, listed or not."""
+        return len(self.violations) + sum(self.unlisted.values())
+
+    def unlisted_by_rule(self) -> dict[str, int]:
+        """Violations counted but not listed, per rule."""
+        out: dict[str, int] = {}
+        for (rule, _leg), n in self.unlisted.items():
+            out[rule] = out.get(rule, 0) + n
+        return out
 
     @property
     def warnings(self) -> tuple[Finding, ...]:
@@ -146,20 +165,30 @@ class Report:
 
     @property
     def violations(self) -> tuple[Finding, ...]:
+        """The violations listed; ``violation_count`` also counts the unlisted ones."""
         return tuple(f for f in self.findings if f.is_violation)
 
     @property
     def errors(self) -> tuple[InputReport, ...]:
         return tuple(r for r in self.inputs if r.error is not None)
 
+    @property
+    def violation_count(self) -> int:
+        """Every violation found, listed or not."""
+        return sum(r.violation_count for r in self.inputs)
+
     def by_rule(self) -> dict[str, int]:
-        return dict(Counter(f.rule for f in self.violations))
+        """Violations per rule, the unlisted ones included."""
+        counts = Counter(f.rule for f in self.violations)
+        for r in self.inputs:
+            counts.update(r.unlisted_by_rule())
+        return dict(counts)
 
     def exit_status(self, *, strict: bool = False) -> int:
         """0 clean, 1 at least one violation (or warning when strict), 2 an input failed."""
         if self.errors:
             return 2
-        if self.violations:
+        if self.violation_count:
             return 1
         if strict and any(r.warnings for r in self.inputs):
             return 1

@@ -5,6 +5,7 @@ from __future__ import annotations
 import re
 from collections.abc import Iterable, Sequence
 
+from ._printable import name_list, printable
 from .errors import UsageError
 from .model import Leg
 
@@ -53,7 +54,8 @@ def legs_or_guess(legs: Sequence[Leg], channels: Sequence[str], path: str) -> tu
     found = guess_legs(channels)
     if not found:
         raise UsageError(
-            f"{path}: cannot tell the legs from channels {', '.join(channels)}; "
+            f"{printable(path)}: cannot tell the legs from channels "
+            f"{printable(name_list(channels))}; "
             "name them with --leg NAME=HIGH,LOW"
         )
     return found

@@ -160,9 +160,9 @@ def test_precommit_hook_definition():
     assert hook["entry"] == "sequencecheck check"
     assert hook["language"] == "python"
     files = re.compile(hook["files"])
-    for name in ("drive/leg_timing.seqtable", "a/b.timing", "pwm.gatetable"):
+    for name in ("drive/reversal.steps", "a/b.steps", "pwm.steps"):
         assert files.search(name), name
-    for name in ("capture.csv", "notes.txt", "timing.py"):
+    for name in ("capture.csv", "notes.txt", "steps.py", "cart.bridge"):
         assert not files.search(name), name
 
 

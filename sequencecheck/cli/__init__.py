@@ -11,6 +11,7 @@ import sys
 from collections.abc import Sequence
 
 from .. import __version__
+from .._printable import printable
 from ..errors import SequenceCheckError
 from . import _bootstrap, _check, _deadtime, _plot
 
@@ -26,7 +27,7 @@ class _Parser(argparse.ArgumentParser):
     """argparse with one-line errors and exit status 2."""
 
     def error(self, message: str) -> None:  # type: ignore[override]
-        self.exit(EXIT_ERROR, f"{self.prog}: error: {message} (see --help)\n")
+        self.exit(EXIT_ERROR, f"{self.prog}: error: {printable(message)} (see --help)\n")
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -59,7 +60,7 @@ def run(argv: Sequence[str] | None = None) -> int:
     except SystemExit as e:  # argparse: --help, --version, usage errors
         return int(e.code or 0) if isinstance(e.code, int) else EXIT_ERROR
     except SequenceCheckError as e:
-        print(f"sequencecheck: error: {e}", file=sys.stderr)
+        print(f"sequencecheck: error: {printable(e)}", file=sys.stderr)  # one line
         return EXIT_ERROR
 
 

@@ -21,6 +21,9 @@ from ._progress import progress_display
 
 __all__ = ["add_parser", "build_bridge", "build_policy", "run_check"]
 
+#: violations listed per rule and input unless --max-findings says otherwise
+DEFAULT_MAX_FINDINGS = 1000
+
 EXAMPLES = """examples:
   sequencecheck check capture.csv --leg A=AH,AL --leg B=BH,BL --dead-time 500ns
   sequencecheck check capture.csv --dead-time 1us --active-low AL,BL --format json
@@ -76,6 +79,14 @@ def add_parser(sub: argparse._SubParsersAction) -> argparse.ArgumentParser:  # t
     p.add_argument("--output", metavar="FILE", help="write the report to FILE (default: stdout)")
     p.add_argument("--strict", action="store_true", help="warnings fail the run too")
     p.add_argument(
+        "--max-findings",
+        metavar="N",
+        type=int,
+        default=DEFAULT_MAX_FINDINGS,
+        help="list at most N violations per rule and input; the rest are counted "
+        f"(default: {DEFAULT_MAX_FINDINGS}; 0: list every one)",
+    )
+    p.add_argument(
         "--jobs",
         "-j",
         metavar="N",
@@ -119,7 +130,12 @@ def build_policy(args: argparse.Namespace) -> Policy:
     dead = None
     if args.dead_time is not None:
         dead = DeadTime.both(parse_duration(args.dead_time, what="--dead-time"))
-    return Policy(dead_time=dead, strict=args.strict)
+    limit = getattr(args, "max_findings", 0)  # commands without the flag list every one
+    if limit < 0:
+        from ..errors import UsageError
+
+        raise UsageError(f"--max-findings must be 0 (no limit) or more, not {limit}")
+    return Policy(dead_time=dead, strict=args.strict, max_findings_per_rule=limit or None)
 
 
 def _settings(args: argparse.Namespace, policy: Policy) -> dict[str, object]:
@@ -127,6 +143,7 @@ def _settings(args: argparse.Namespace, policy: Policy) -> dict[str, object]:
         "dead_time_ps": None if policy.dead_time is None else policy.dead_time.high_to_low_ps,
         "legs": list(args.leg),
         "active_low": sorted(c for c in args.active_low.split(",") if c),
+        "max_findings_per_rule": policy.max_findings_per_rule,
         **physics_settings(args),
     }
 

@@ -36,6 +36,8 @@ class Policy:
     bridge's leg count); ``bootstrap`` holds bootstrap limits, if any.
     ``effective_dead_time`` is the least gap between effective (physical)
     conduction intervals; None means 0: the switches must never conduct together.
+    ``max_findings_per_rule`` bounds the violations each rule lists per input; the
+    rest are counted (``InputReport.unlisted``), so counts stay exact.
     """
 
     dead_time: DeadTime | None = None
@@ -47,6 +49,8 @@ class Policy:
     bootstrap: object | None = None
     strict: bool = False
     effective_dead_time: DeadTime | None = None
+    #: most findings each rule lists per input (the rest are counted); None: no limit
+    max_findings_per_rule: int | None = None
 
     def dead_time_for(self, leg: str) -> DeadTime | None:
         return self.dead_time_by_leg.get(leg, self.dead_time)

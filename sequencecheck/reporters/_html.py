@@ -106,6 +106,7 @@ def _leg_table(r: InputReport, n: int, legs: Mapping[str, Any]) -> str:
             if m.leg == name
         )
         count = sum(1 for f in r.violations if f.leg == name)
+        count += sum(k for (_rule, leg_name), k in r.unlisted.items() if leg_name == name)
         cls = ' class="violation"' if count else ""
         rows.append(
             f"<tr{cls}><td>{_e(name)}</td><td>{_e(leg.high) if leg else '–'}</td>"
@@ -159,6 +160,11 @@ def _input_section(r: InputReport, n: int, figures: Figures | None) -> str:
                 ("channels", ", ".join(_e(c) for c in r.channels)),
                 ("bridge (leg = high / low)", bridge or "–"),
             ]
+            + (
+                [("not checked (in no leg)", ", ".join(_e(c) for c in r.unchecked_channels))]
+                if r.unchecked_channels
+                else []
+            )
         )
     )
     parts.append(_leg_table(r, n, legs))
@@ -188,6 +194,11 @@ def _input_section(r: InputReport, n: int, figures: Figures | None) -> str:
                 )
     else:
         parts.append('<p class="note">No findings.</p>')
+    for rule, count in r.unlisted_by_rule().items():
+        parts.append(
+            f'<p class="note">{count:,} more {_e(rule)} violation(s) not listed '
+            "(see --max-findings).</p>"
+        )
     hists = figures.histograms.get(n, ()) if figures else ()
     if hists:
         parts.append("<h3>Dead-time histograms</h3>")
@@ -236,7 +247,7 @@ def render_html(
     violations = report.violations
     if violations:
         by_rule = ", ".join(f"{_e(k)} {v}" for k, v in sorted(report.by_rule().items()))
-        verdict = f'<p class="verdict bad">{len(violations)} violation(s): {by_rule}</p>'
+        verdict = f'<p class="verdict bad">{report.violation_count} violation(s): {by_rule}</p>'
     else:
         verdict = '<p class="verdict ok">No violations</p>'
     failed = (

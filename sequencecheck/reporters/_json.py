@@ -40,7 +40,7 @@ def finding_record(f: Finding) -> dict[str, Any]:
 _RESERVED = {"rule", "leg", "channels", "input", "message"}
 
 
-def _leg_record(s: LegStats) -> dict[str, Any]:
+def _leg_record(s: LegStats, channels: tuple[str, str] | None = None) -> dict[str, Any]:
     def direction(d: Any) -> dict[str, Any]:
         return {
             "count": d.count,
@@ -54,6 +54,8 @@ def _leg_record(s: LegStats) -> dict[str, Any]:
         "leg": s.leg,
         "high_to_low": direction(s.high_to_low),
         "low_to_high": direction(s.low_to_high),
+        "high": None if channels is None else channels[0],
+        "low": None if channels is None else channels[1],
     }
 
 
@@ -71,7 +73,8 @@ def input_record(r: InputReport) -> dict[str, Any]:
         "end_ps": r.end_ps,
         "sample_period_s": ps_to_seconds(r.sample_period_ps),
         "channels": list(r.channels),
-        "legs": [_leg_record(s) for s in r.leg_stats],
+        "legs": [_leg_record(s, r.leg_channels.get(s.leg)) for s in r.leg_stats],
+        "unchecked_channels": list(r.unchecked_channels),
         "worst_margins": [
             {
                 "rule": m.rule,
@@ -88,7 +91,8 @@ def input_record(r: InputReport) -> dict[str, Any]:
             }
             for m in r.margins
         ],
-        "violations": len(r.violations),
+        "violations": r.violation_count,
+        "unlisted": r.unlisted_by_rule(),
         "warnings": [finding_record(f) for f in r.warnings],
         **{k: v for k, v in r.extra.items() if isinstance(k, str) and _jsonable(v)},
     }
@@ -113,7 +117,8 @@ def report_record(report: Report) -> dict[str, Any]:
     return {
         "violations": [finding_record(f) for f in violations],
         "summary": {
-            "violations": len(violations),
+            "violations": report.violation_count,
+            "unlisted": report.violation_count - len(violations),
             "by_rule": report.by_rule(),
             "inputs": [input_record(r) for r in report.inputs],
             "inputs_failed": len(report.errors),

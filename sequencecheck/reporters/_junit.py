@@ -21,13 +21,16 @@ def _sub(parent: ET.Element, tag: str, **attrs: object) -> ET.Element:
     return ET.SubElement(parent, tag, {k: xml_safe(v) for k, v in attrs.items()})
 
 
-def _failure(case: ET.Element, rule: str, found: list[Finding]) -> None:
+def _failure(case: ET.Element, rule: str, found: list[Finding], unlisted: int) -> None:
     worst = min((f.margin_ps for f in found if f.margin_ps is not None), default=None)
-    message = f"{len(found)} violation(s)"
+    message = f"{len(found) + unlisted} violation(s)"
     if worst is not None:
         message += f", worst margin {format_time(worst)}"
     failure = _sub(case, "failure", message=message, type=rule)
-    failure.text = xml_safe("\n".join(finding_summary(f) for f in found))
+    lines = [finding_summary(f) for f in found]
+    if unlisted:
+        lines.append(f"... and {unlisted} more not listed (raise --max-findings to list them)")
+    failure.text = xml_safe("\n".join(lines))
 
 
 def _suite(root: ET.Element, r: InputReport, ids: tuple[str, ...]) -> tuple[int, int, int]:
@@ -56,9 +59,10 @@ def _suite(root: ET.Element, r: InputReport, ids: tuple[str, ...]) -> tuple[int,
         where = "bridge" if leg is None else f"leg {leg}"
         case = _sub(suite, "testcase", classname=r.input, name=f"{where}: {rule}", time="0")
         tests += 1
-        if (leg, rule) in violations:
+        unlisted = r.unlisted.get((rule, leg), 0)
+        if (leg, rule) in violations or unlisted:
             failures += 1
-            _failure(case, rule, violations[leg, rule])
+            _failure(case, rule, violations.get((leg, rule), []), unlisted)
         if (leg, rule) in others:
             out = _sub(case, "system-out")
             out.text = xml_safe("\n".join(finding_summary(f) for f in others[leg, rule]))

@@ -164,6 +164,8 @@ def _input(r: InputReport) -> dict[str, Any]:
         "startPs": r.start_ps,
         "endPs": r.end_ps,
         "error": r.error,
+        "violations": r.violation_count,
+        "unlistedViolations": r.unlisted_by_rule(),
     }
 
 

@@ -1,7 +1,13 @@
-"""Text report for people: a per-leg summary table, then findings in time order."""
+"""Text report for people: a per-leg summary table, then findings in time order.
+
+Every string that comes from an input (paths, channel, leg and state names, messages)
+passes through ``printable``: control characters print as escapes such as ``\\x1b``,
+so a name cannot move the cursor or clear the terminal.
+"""
 
 from __future__ import annotations
 
+from .._printable import printable as _p
 from ..findings import Certainty, DirectionStats, Finding, InputReport, Report
 from ..units import format_time
 from ._files import file_summary_lines
@@ -48,9 +54,9 @@ def _where(f: Finding) -> str:
     if not located:
         return ""
     main = located[-1]
-    others = [str(s.line) if s.path == main.path else str(s) for s in located[:-1] if s != main]
+    others = [str(s.line) if s.path == main.path else _p(s) for s in located[:-1] if s != main]
     also = f"; also line {', '.join(others)}" if others else ""
-    return f"  ({main}{also})"
+    return f"  ({_p(main)}{also})"
 
 
 def _finding_line(f: Finding, paint: _Paint) -> str:
@@ -58,9 +64,7 @@ def _finding_line(f: Finding, paint: _Paint) -> str:
     margin = "" if f.margin_ps is None else f"  margin {format_time(f.margin_ps)}"
     tag = "" if f.certainty is Certainty.PROVEN else "  [inconclusive at this sample rate]"
     colour = _RED if f.is_violation else _YELLOW
-    return (
-        f"  {format_time(f.start_ps):>16}  {paint(colour, f.rule)}  {f.message}{margin}{tag}{where}"
-    )
+    return f"  {format_time(f.start_ps):>16}  {paint(colour, _p(f.rule))}  {_p(f.message)}{margin}{tag}{where}"
 
 
 def _margin_table(r: InputReport) -> list[str]:
@@ -74,19 +78,25 @@ def _margin_table(r: InputReport) -> list[str]:
     rows = [["worst margin", "rule", *kinds]]
     leg_order = {name: i for i, name in enumerate(r.legs)}
     for (leg, rule), by_kind in sorted(cells.items(), key=lambda c: leg_order.get(c[0][0], 0)):
-        rows.append([f"leg {leg}", rule, *(by_kind.get(k, "-") for k in kinds)])
+        rows.append([f"leg {_p(leg)}", _p(rule), *(by_kind.get(k, "-") for k in kinds)])
     return _table(rows)
 
 
 def _input_block(r: InputReport, paint: _Paint) -> list[str]:
     if r.error is not None:
-        return [paint(_BOLD, r.input), f"  {paint(_RED, 'not checked')}: {r.error}", ""]
+        return [paint(_BOLD, _p(r.input)), f"  {paint(_RED, 'not checked')}: {_p(r.error)}", ""]
     sampled = f", sample period {format_time(r.sample_period_ps)}" if r.sample_period_ps else ""
     lines = [
-        paint(_BOLD, r.input),
+        paint(_BOLD, _p(r.input)),
         f"  checked {r.rows:,} {_ROW_NOUN.get(r.kind, 'rows')}, {r.edges:,} edges, {format_time(r.start_ps)} to "
-        f"{format_time(r.end_ps)} ({r.kind}{sampled}); channels: {', '.join(r.channels)}",
+        f"{format_time(r.end_ps)} ({_p(r.kind)}{sampled}); channels: {_p(', '.join(r.channels))}",
     ]
+    if r.leg_channels:
+        legs = ", ".join(f"{leg} = {hi} / {lo}" for leg, (hi, lo) in r.leg_channels.items())
+        lines.append(f"  legs: {_p(legs)}")
+    if r.unchecked_channels:
+        unchecked = _p(", ".join(r.unchecked_channels))
+        lines.append(paint(_YELLOW, f"  not checked (in no leg): {unchecked}"))
     if r.leg_stats:
         rows = [
             [
@@ -102,7 +112,8 @@ def _input_block(r: InputReport, paint: _Paint) -> list[str]:
             n_hl, m_hl = _direction(s.high_to_low)
             n_lh, m_lh = _direction(s.low_to_high)
             count = sum(1 for f in r.violations if f.leg == s.leg)
-            rows.append([s.leg, n_hl, m_hl, n_lh, m_lh, str(count)])
+            count += sum(n for (_rule, leg), n in r.unlisted.items() if leg == s.leg)
+            rows.append([_p(s.leg), n_hl, m_hl, n_lh, m_lh, str(count)])
         lines += _table(rows)
     if r.margins:
         lines += _margin_table(r)
@@ -116,7 +127,11 @@ def _input_block(r: InputReport, paint: _Paint) -> list[str]:
     if r.findings:
         lines.append("  findings:")
         lines += [_finding_line(f, paint) for f in r.findings]
-    lines += states_lines(r)
+    for rule, n in r.unlisted_by_rule().items():
+        lines.append(
+            paint(_YELLOW, f"  {n:,} more {_p(rule)} violation(s) not listed (see --max-findings)")
+        )
+    lines += [_p(line) for line in states_lines(r)]
     lines.append("")
     return lines
 
@@ -128,11 +143,11 @@ def render_text(report: Report, *, colour: bool = False) -> str:
         lines += _input_block(r, paint)
     if len(report.inputs) > 1:
         lines += file_summary_lines(report)
-    violations = report.violations
+    violations = report.violation_count
     by_rule = ", ".join(f"{k} {v}" for k, v in sorted(report.by_rule().items()))
     n_in = len(report.inputs)
     if violations:
-        verdict = paint(_RED, f"{len(violations)} violation(s)") + f" ({by_rule})"
+        verdict = paint(_RED, f"{violations} violation(s)") + f" ({_p(by_rule)})"
     else:
         verdict = paint(_GREEN, "no violations")
     failed = f"; {len(report.errors)} input(s) could not be checked" if report.errors else ""

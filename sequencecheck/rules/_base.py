@@ -47,6 +47,19 @@ class RuleResult:
     leg_stats: list[LegStats] = field(default_factory=list)
     margins: list[WorstMargin] = field(default_factory=list)
     extra: dict[str, Any] = field(default_factory=dict)
+    #: (rule, leg) -> violations found but not built as findings (see ``listed``)
+    unlisted: dict[tuple[str, str | None], int] = field(default_factory=dict)
+
+    def listed(self, ctx: CheckContext, rule: str, leg: str | None, found: Any) -> Any:
+        """The first ``Policy.max_findings_per_rule`` of ``found`` (violations of one
+        group, in time order: a sequence or array); the rest are counted as unlisted,
+        so a rule builds a bounded number of findings however many faults there are."""
+        limit = ctx.policy.max_findings_per_rule
+        if limit is None or len(found) <= limit:
+            return found
+        key = (rule, leg)
+        self.unlisted[key] = self.unlisted.get(key, 0) + len(found) - limit
+        return found[:limit]
 
 
 @dataclass(frozen=True, slots=True)

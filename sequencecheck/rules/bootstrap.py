@@ -76,7 +76,19 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
             start_charged=start_charged,
         )
         line_of = dict(zip(high.starts.tolist(), high.start_lines.tolist(), strict=True))
-        for e in events:
+        # worst margin: a failing interval's margin (listed or not), else hold time minus on-time
+        candidates = [
+            (
+                e.required_ps - e.measured_ps
+                if e.check in ("on-time", "coast")
+                else e.measured_ps - e.required_ps,
+                e.high.start_ps,
+                e.measured_ps,
+                e.required_ps,
+            )
+            for e in events
+        ]
+        for e in result.listed(ctx, "bootstrap-refresh", leg.name, events):
             more_is_worse = e.check in ("on-time", "coast")
             line = line_of.get(e.high.start_ps, 0)
             result.findings.append(
@@ -99,12 +111,6 @@ def _check_bootstrap(ctx: CheckContext) -> RuleResult:
                     margin_ps=e.required_ps - e.measured_ps if more_is_worse else None,
                 )
             )
-        # worst margin: a failing interval's finding margin, else hold time minus on-time
-        candidates = [
-            (f.margin_ps, f.start_ps, f.measured_ps, f.required_ps)
-            for f in result.findings
-            if f.leg == leg.name and f.margin_ps is not None and f.required_ps is not None
-        ]
         if passing is not None and passing.margin_ps is not None and passing.hold_ps is not None:
             candidates.append(
                 (

@@ -122,14 +122,20 @@ def _shoot_through_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResul
     trace, ts = ctx.trace, ctx.trace.sample_period_ps
     high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
     starts, ends, ih, il = intersect(high, low)
+    shown = result.listed(ctx, "shoot-through", leg.name, np.arange(starts.size))
+    sh, sl = ih[shown], il[shown]
     # the later turn-on opened the overlap, the earlier turn-off closed it
     open_line = np.where(
-        high.starts[ih] >= low.starts[il], high.start_lines[ih], low.start_lines[il]
+        high.starts[sh] >= low.starts[sl], high.start_lines[sh], low.start_lines[sl]
     )
-    close_line = np.where(high.ends[ih] <= low.ends[il], high.end_lines[ih], low.end_lines[il])
+    close_line = np.where(high.ends[sh] <= low.ends[sl], high.end_lines[sh], low.end_lines[sl])
     effective = kind == EFFECTIVE
     for s, e, ol, cl in zip(
-        starts.tolist(), ends.tolist(), open_line.tolist(), close_line.tolist(), strict=True
+        starts[shown].tolist(),
+        ends[shown].tolist(),
+        open_line.tolist(),
+        close_line.tolist(),
+        strict=True,
     ):
         width = e - s
         open_end = e == trace.end_ps and (high.clipped_end or low.clipped_end)
@@ -267,7 +273,7 @@ def _dead_time_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResult) -
         off_ch, on_ch = (
             (leg.high, leg.low) if h.direction is Direction.HIGH_TO_LOW else (leg.low, leg.high)
         )
-        for n in bad.tolist():
+        for n in result.listed(ctx, "dead-time", leg.name, bad).tolist():
             off, on, gap = int(h.off_ps[n]), int(h.on_ps[n]), int(gaps[n])
             proven = ts is None or gap + ts <= required
             if effective:

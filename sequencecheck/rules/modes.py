@@ -124,14 +124,16 @@ def _finding(
     )
 
 
-def _forbidden(ctx: CheckContext, tl: StateTimeline, cp: CompiledPolicy) -> list[Finding]:
+def _forbidden(
+    ctx: CheckContext, tl: StateTimeline, cp: CompiledPolicy, result: RuleResult
+) -> list[Finding]:
     seg = tl.merged
     if len(seg) < 2:
         return []
     a, b = seg.states[:-1], seg.states[1:]
     bad = np.flatnonzero(cp.forbidden[a, b])
     out = []
-    for i in bad.tolist():
+    for i in result.listed(ctx, "mode-transition", None, bad).tolist():
         src, dst = tl.names[int(a[i])], tl.names[int(b[i])]
         start, end = int(seg.core_ends[i]), int(seg.core_starts[i + 1])
         out.append(
@@ -184,7 +186,8 @@ def _dwells(
             worst = WorstMargin(
                 "mode-transition", "bridge", margin, at, int(gaps[k]), rule.min_dwell_ps
             )
-        for n in np.flatnonzero(gaps < rule.min_dwell_ps).tolist():
+        short = np.flatnonzero(gaps < rule.min_dwell_ps)
+        for n in result.listed(ctx, "mode-transition", None, short).tolist():
             start, end = int(seg.ends[visits[n]]), int(seg.starts[entries[n]])
             out.append(
                 _finding(
@@ -212,7 +215,9 @@ def _dwells(
     return out
 
 
-def _dwell_in(ctx: CheckContext, tl: StateTimeline, cp: CompiledPolicy) -> list[Finding]:
+def _dwell_in(
+    ctx: CheckContext, tl: StateTimeline, cp: CompiledPolicy, result: RuleResult
+) -> list[Finding]:
     seg = tl.merged
     out = []
     for name, need in cp.min_dwell_in.items():
@@ -222,7 +227,7 @@ def _dwell_in(ctx: CheckContext, tl: StateTimeline, cp: CompiledPolicy) -> list[
         inner = np.arange(1, len(seg) - 1)  # visits cut by the window are not judged
         dur = seg.ends[inner] - seg.starts[inner]
         bad = inner[(seg.states[inner] == si) & (dur < need)]
-        for i in bad.tolist():
+        for i in result.listed(ctx, "mode-transition", None, bad).tolist():
             start, end = int(seg.starts[i]), int(seg.ends[i])
             nxt = tl.names[int(seg.states[i + 1])]
             out.append(
@@ -308,7 +313,8 @@ def _lap_reversals(
                 need,
             )
         )
-    for n in np.flatnonzero(gaps < need).tolist():
+    short = np.flatnonzero(gaps < need)
+    for n in result.listed(ctx, "mode-transition", None, short).tolist():
         src = "forward" if direction[old[n]] > 0 else "reverse"
         dst = "reverse" if src == "forward" else "forward"
         start, end = int(drive_end[old[n]]), int(starts[new[n]])
@@ -332,9 +338,9 @@ def _check_mode_transition(ctx: CheckContext) -> RuleResult:
     result = RuleResult()
     tl = timeline(ctx)
     cp = compile_policy(ctx.policy, tl.names, len(ctx.bridge.legs))
-    findings = _forbidden(ctx, tl, cp)
+    findings = _forbidden(ctx, tl, cp, result)
     findings += _dwells(ctx, tl, cp, result)
-    findings += _dwell_in(ctx, tl, cp)
+    findings += _dwell_in(ctx, tl, cp, result)
     findings += _lap_reversals(ctx, tl, cp, result)
     findings.sort(key=lambda f: (f.start_ps, f.end_ps))
     result.findings = findings

@@ -56,7 +56,8 @@ def _check_min_pulse(ctx: CheckContext) -> RuleResult:
                     need,
                 )
             on_level = ctx.bridge.on_level(name)
-            for n in np.flatnonzero(width < need).tolist():
+            short = np.flatnonzero(width < need)
+            for n in result.listed(ctx, "min-pulse", leg.name, short).tolist():
                 i, w = int(idx[n]), int(width[n])
                 start, end = int(ch.times[i]), int(ch.times[i + 1])
                 kind = "on" if int(level[n]) == on_level else "off"

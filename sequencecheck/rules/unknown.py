@@ -51,11 +51,16 @@ def _check_unknown_state(ctx: CheckContext) -> RuleResult:
             starts, ends, oi, ci = undefined_intervals(
                 ch.initial, ch.times, ch.levels, trace.start_ps, trace.end_ps
             )
+            total += int((ends - starts).sum())
+            shown = result.listed(ctx, "unknown-state", leg.name, np.arange(starts.size))
             for s, e, o, c in zip(
-                starts.tolist(), ends.tolist(), oi.tolist(), ci.tolist(), strict=True
+                starts[shown].tolist(),
+                ends[shown].tolist(),
+                oi[shown].tolist(),
+                ci[shown].tolist(),
+                strict=True,
             ):
                 w = e - s
-                total += w
                 open_end = c < 0
                 lines = [] if ch.lines is None else [int(ch.lines[i]) for i in (o, c) if i >= 0]
                 result.findings.append(

@@ -206,7 +206,6 @@ CASES: list[Case] = [
         bytes(range(256)) * 4,
         Fails(r"expected 2 fields", 2),
         "exit 2 at line 2 (the first line happens to be valid UTF-8); control characters in the message are escaped",
-        known_bug="the message echoes the raw control characters of the header (NUL, BEL, ...) to the terminal",
     ),
     Case(
         "random bytes",
@@ -528,7 +527,6 @@ CASES: list[Case] = [
         "exit 2 at the row; the message stays short (does not list 2,000 names)",
         read_options={"channels": ["C0000"]},
         args=("--leg", "A=C0000,C0001"),
-        known_bug="the message lists every column name: about 12,000 characters on one line",
     ),
     # --- not a regular file --------------------------------------------------------------
     Case(
@@ -564,7 +562,6 @@ CASES: list[Case] = [
         _newline_in_name,
         Fails(r"column 'AH': expected 0 or 1, found 2", 3),
         "exit 2 with the path escaped, so the message stays one line",
-        known_bug="the path is printed raw, so the one-line message spans two lines",
     ),
     # --- valid but odd: read correctly ---------------------------------------------------
     Case("byte-order mark", b"\xef\xbb\xbf" + GOOD, _reads_good(), "read; the BOM is dropped"),

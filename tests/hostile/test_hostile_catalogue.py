@@ -57,12 +57,13 @@ def _cli(case: Case, path: Path) -> subprocess.CompletedProcess[str]:
 
 def _check_message(text: str, path: Path, expect: Fails) -> None:
     """The shared promises of an error message: place, wording, one printable line."""
+    shown = str(path).replace("\n", "\\n")  # a newline in the path is shown escaped
     if expect.usage:
         prefix = ""
     elif expect.line is not None:
-        prefix = f"{path}:{expect.line}: "
+        prefix = f"{shown}:{expect.line}: "
     else:
-        prefix = f"{path}: "
+        prefix = f"{shown}: "
     assert text.startswith(prefix), f"expected the prefix {prefix!r}: {text[:300]!r}"
     assert re.search(expect.pattern, text), f"{expect.pattern!r} not in {text[:300]!r}"
     assert "\n" not in text and "\r" not in text, f"not one line: {text[:300]!r}"

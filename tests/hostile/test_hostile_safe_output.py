@@ -139,11 +139,6 @@ def test_control_characters_in_names_are_escaped_in_json(tmp_path: Path) -> None
     assert json.loads(r.stdout)["summary"]["inputs"][0]["channels"] == [high, low]
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="the text report prints control characters from channel names raw (an ESC "
-    "sequence in a name can clear or rewrite the terminal)",
-)
 def test_control_characters_in_names_are_escaped_in_text(tmp_path: Path) -> None:
     path = _odd_capture(tmp_path, "A\x1b[2J H", "A\x1b[2J L")
     r = run_cli("check", path)
