@@ -13,7 +13,6 @@ import inspect
 import os
 import signal
 from collections.abc import Callable, Sequence
-from queue import Empty
 from typing import Any, Protocol
 
 from .api import check_file
@@ -81,7 +80,11 @@ def _init_worker(queue: Any) -> None:
 def _job(path: str, bridge: Bridge | None, policy: Policy | None, options: dict) -> InputReport:
     queue = _QUEUE
     progress = None if queue is None else (lambda done: queue.put((path, done)))
-    return check_one(path, bridge, policy, options, progress)
+    try:
+        return check_one(path, bridge, policy, options, progress)
+    finally:
+        if queue is not None:
+            queue.put((path, None))  # this input is finished: after all of its progress
 
 
 def _size(path: str) -> int:
@@ -135,7 +138,10 @@ def _pool(
 
     # fork starts workers in milliseconds; workers are started before any other thread
     ctx = mp.get_context("fork") if "fork" in mp.get_all_start_methods() else mp.get_context()
-    queue = ctx.Queue() if progress is not None else None
+    # progress and an end-of-input mark travel on one queue, so "done" follows the last
+    # "advance" of an input whatever order the result and the messages arrive in
+    queue = ctx.SimpleQueue() if progress is not None else None
+    unfinished = set(paths) if progress is not None else set()
     results: list[InputReport | None] = [None] * len(paths)
     with ProcessPoolExecutor(
         jobs, mp_context=ctx, initializer=_init_worker, initargs=(queue,)
@@ -150,12 +156,10 @@ def _pool(
         try:
             while pending:
                 finished, pending = wait(pending, timeout=0.1, return_when=FIRST_COMPLETED)
-                _drain(queue, progress)
+                _drain(queue, progress, unfinished, block=False)
                 for f in finished:
-                    i = futures[f]
-                    results[i] = f.result()
-                    if progress is not None:
-                        progress.done(paths[i])
+                    results[futures[f]] = f.result()
+            _drain(queue, progress, unfinished, block=True)  # the last marks still on the way
         except BaseException:  # Ctrl-C or a bug: stop the workers, start nothing more
             workers = list((getattr(pool, "_processes", None) or {}).values())
             pool.shutdown(wait=False, cancel_futures=True)
@@ -167,12 +171,14 @@ def _pool(
     return [r for r in results if r is not None]
 
 
-def _drain(queue: Any, progress: ProgressSink | None) -> None:
+def _drain(queue: Any, progress: ProgressSink | None, unfinished: set[str], *, block: bool) -> None:
+    """Pass progress on; with ``block``, wait until every input has sent its end mark."""
     if queue is None or progress is None:
         return
-    while True:
-        try:
-            path, done = queue.get_nowait()
-        except Empty:
-            return
-        progress.advance(path, done)
+    while unfinished and (block or not queue.empty()):
+        path, done = queue.get()
+        if done is None:
+            unfinished.discard(path)
+            progress.done(path)
+        else:
+            progress.advance(path, done)

@@ -14,7 +14,6 @@ Each row's values hold until the next row's time.
 from __future__ import annotations
 
 import csv
-import io
 import math
 import os
 import re
@@ -128,9 +127,8 @@ def _arrow_batches(
     time_name = layout.names[layout.time_index]
     types = {name: pa.int8() for name in columns}
     types[time_name] = pa.int64() if layout.ps_per_tick is None else pa.float64()
-    source = _CountingFile(path)
     reader = pacsv.open_csv(
-        source,
+        path,  # a path, never a Python file: pyarrow's read-ahead threads must not call Python
         read_options=pacsv.ReadOptions(
             column_names=list(layout.names),
             skip_rows=1,
@@ -147,35 +145,25 @@ def _arrow_batches(
         ),
     )
     time_type = np.int64 if layout.ps_per_tick is None else np.float64
-    try:
-        for batch in reader:
-            t = _numpy(batch.column(0), time_type)
-            yield t, [_numpy(batch.column(i), np.int8) for i in range(1, len(columns) + 1)]
-            if progress is not None:
-                progress(source.done)
-    finally:
-        source.close()
+    size = os.path.getsize(path)
+    row_bytes = _mean_row_bytes(path, layout.header_bytes) if progress is not None else 0
+    rows = 0
+    for batch in reader:
+        t = _numpy(batch.column(0), time_type)
+        yield t, [_numpy(batch.column(i), np.int8) for i in range(1, len(columns) + 1)]
+        rows += t.size
+        if progress is not None:  # an estimate: pyarrow does not say how far it has read
+            progress(min(size, layout.header_bytes + int(rows * row_bytes)))
+    if progress is not None:
+        progress(size)
 
 
-class _CountingFile(io.RawIOBase):
-    """A binary file that counts the bytes handed out (for progress on pyarrow's path)."""
-
-    def __init__(self, path: str) -> None:
-        super().__init__()
-        self._f = open(path, "rb")  # noqa: SIM115 - closed by close()
-        self.done = 0
-
-    def readable(self) -> bool:
-        return True
-
-    def readinto(self, b: bytearray) -> int:  # type: ignore[override]
-        n = self._f.readinto(b)
-        self.done += n or 0
-        return n or 0
-
-    def close(self) -> None:
-        self._f.close()
-        super().close()
+def _mean_row_bytes(path: str, header_bytes: int) -> float:
+    """Average row length in the first 64 KiB after the header (for progress estimates)."""
+    with open(path, "rb") as f:
+        f.seek(header_bytes)
+        sample = f.read(1 << 16)
+    return len(sample) / max(1, sample.count(b"\n"))
 
 
 def _numpy(col: object, dtype: type) -> np.ndarray:
