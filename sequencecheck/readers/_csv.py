@@ -17,6 +17,7 @@ import csv
 import math
 import os
 import re
+import stat
 from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
 
@@ -58,6 +59,45 @@ def _open_error(path: str) -> InputError:
     return InputError("cannot be read (permission?)", path=path)
 
 
+#: Longest column name accepted (characters).
+NAME_LIMIT = 1024
+#: Longest header line read (bytes); a longer first line is not a CSV header.
+HEADER_LIMIT = 1 << 20
+
+
+def _header_line(path: str) -> tuple[bytes, int]:
+    """The first line (without its end: LF, CRLF or CR) and the bytes it takes."""
+    try:
+        if os.path.isdir(path):
+            raise _open_error(path)
+        if not stat.S_ISREG(os.stat(path).st_mode):
+            raise InputError(
+                "is not a regular file (a pipe or device?); expected a CSV file", path=path
+            )
+        with open(path, "rb") as f:
+            block = f.read(HEADER_LIMIT + 2)
+    except OSError:
+        raise _open_error(path) from None
+    ends = [i for i in (block.find(b"\n"), block.find(b"\r")) if i >= 0]
+    if not ends:
+        if len(block) > HEADER_LIMIT:
+            raise InputError(
+                f"the first line is longer than {HEADER_LIMIT:,} bytes; expected a CSV header",
+                path=path,
+                line=1,
+            )
+        return block, len(block)
+    end = min(ends)
+    if end > HEADER_LIMIT:
+        raise InputError(
+            f"the first line is longer than {HEADER_LIMIT:,} bytes; expected a CSV header",
+            path=path,
+            line=1,
+        )
+    after = end + (2 if block[end : end + 2] == b"\r\n" else 1)
+    return block[:end], after
+
+
 def sniff_layout(
     path: str,
     *,
@@ -66,24 +106,37 @@ def sniff_layout(
     sample_rate_hz: float | None = None,
 ) -> CsvLayout:
     """Read the header line and decide how the rest of the file is read."""
-    try:
-        with open(path, "rb") as f:
-            head = f.readline(1 << 20)
-    except OSError:
-        raise _open_error(path) from None
+    head, header_bytes = _header_line(path)
     if not head.strip():
         raise InputError(
             "empty file, expected a header row such as 'time,AH,AL'", path=path, line=1
         )
     bom = head.startswith(b"\xef\xbb\xbf")
     try:
-        text = head[3 if bom else 0 :].decode("utf-8").rstrip("\r\n")
+        text = head[3 if bom else 0 :].decode("utf-8")
     except UnicodeDecodeError:
         raise InputError(
             "header is not UTF-8 text; is this a CSV file?", path=path, line=1
         ) from None
+    if "\x00" in text:
+        raise InputError(
+            "header holds NUL bytes; expected a text header such as 'time,AH,AL'",
+            path=path,
+            line=1,
+        )
+    if text.count('"') % 2:
+        raise InputError("a quote opened in the header is never closed", path=path, line=1)
     delimiter = max((",", ";", "\t"), key=text.count)
+    csv.field_size_limit(max(csv.field_size_limit(), HEADER_LIMIT))
     names = tuple(n.strip() for n in next(csv.reader([text], delimiter=delimiter)))
+    long_name = next((n for n in names if len(n) > NAME_LIMIT), None)
+    if long_name is not None:
+        raise InputError(
+            f"a column name is {len(long_name):,} characters long ({_short(long_name)}); "
+            f"expected names of at most {NAME_LIMIT:,}",
+            path=path,
+            line=1,
+        )
     if len(names) < 2:
         raise InputError("header needs a time column and at least one channel", path=path, line=1)
     if len(set(names)) != len(names):
@@ -102,16 +155,22 @@ def sniff_layout(
     ps_per_tick: int | None
     sample_period_ps = None
     if sample_rate_hz is not None:
-        if not sample_rate_hz > 0:
+        if not (sample_rate_hz > 0 and math.isfinite(sample_rate_hz)):
             raise UsageError(f"--sample-rate must be a positive frequency, not {sample_rate_hz}")
+        period = 1e12 / sample_rate_hz
+        if not 1 <= period < 2**62:
+            raise UsageError(
+                f"--sample-rate {sample_rate_hz:g} Hz gives a sample period outside 1 ps to "
+                "about 53 days; expected a rate between about 2.2e-7 Hz and 1e12 Hz"
+            )
         ps_per_tick = None
-        sample_period_ps = round(1e12 / sample_rate_hz)
+        sample_period_ps = round(period)
     elif time_unit is not None:
         ps_per_tick = unit_scale(time_unit)
     else:
         m = _UNIT_IN_NAME.search(names[time_index])
         ps_per_tick = unit_scale(m.group(1).lower()) if m else unit_scale("s")
-    return CsvLayout(delimiter, names, time_index, ps_per_tick, sample_period_ps, len(head))
+    return CsvLayout(delimiter, names, time_index, ps_per_tick, sample_period_ps, header_bytes)
 
 
 def _arrow_batches(
@@ -178,11 +237,17 @@ def _numpy(col: object, dtype: type) -> np.ndarray:
     return parts[0] if len(parts) == 1 else np.concatenate(parts)
 
 
+def _short(text: str) -> str:
+    """``text`` quoted, shortened in the middle when long."""
+    return repr(text) if len(text) <= 40 else repr(text[:18] + "..." + text[-18:])
+
+
 def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputError:
     """Walk the file in pure Python to name the first bad row, after the fast path failed."""
     idx = [layout.names.index(c) for c in columns]
     time_name = layout.names[layout.time_index]
     last_ps: int | None = None
+    csv.field_size_limit(max(csv.field_size_limit(), 1 << 30))  # long fields are named, not fatal
     with open(path, newline="", encoding="utf-8-sig", errors="replace") as f:
         reader = csv.reader(f, delimiter=layout.delimiter)
         next(reader, None)
@@ -212,6 +277,13 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
                 )
             if layout.ps_per_tick is None:
                 t_ps = int(t) * (layout.sample_period_ps or 0)
+                if not 0 <= t_ps < 2**63:
+                    return InputError(
+                        f"column {time_name!r}: expected a sample index in range "
+                        f"(time within int64 picoseconds), found {_short(t)}",
+                        path=path,
+                        line=line,
+                    )
             else:
                 t_ps = int(np.rint(float(t) * layout.ps_per_tick))
             if last_ps is not None and t_ps < last_ps:  # as the batch check words it
@@ -225,7 +297,9 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
                 v = row[i].strip()
                 if v not in ("0", "1"):
                     return InputError(
-                        f"column {name!r}: expected 0 or 1, found {v!r}", path=path, line=line
+                        f"column {name!r}: expected 0 or 1, found {_short(v)}",
+                        path=path,
+                        line=line,
                     )
     return InputError("could not be read as CSV (no bad row found; is it truncated?)", path=path)
 
@@ -405,9 +479,7 @@ def _assemble(
                 tf = raw_t
                 with np.errstate(invalid="ignore", over="ignore"):  # nan/inf: named below
                     t = np.rint(tf * layout.ps_per_tick).astype(np.int64)
-            problem = _first_problem(
-                path, layout, wanted, first_line, tf, t, last_t, values, raw_t
-            )
+            problem = _first_problem(path, layout, wanted, first_line, tf, t, last_t, values, raw_t)
             if problem is not None:
                 raise problem
             steps = np.diff(t) if last_t is None else np.diff(t, prepend=last_t)
