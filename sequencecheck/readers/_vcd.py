@@ -123,4 +123,6 @@ def read_vcd(
 
 def _check_not_empty(path: str) -> None:
     if os.path.getsize(path) == 0:
-        raise InputError("empty file, expected a VCD header ($timescale, $var ...)", path=path)
+        raise InputError(
+            "empty file, expected a VCD header ($timescale, $var ...)", path=path, line=1
+        )

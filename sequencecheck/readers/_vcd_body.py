@@ -88,7 +88,7 @@ class VcdBody:
         self.outer: tuple[str, int] | None = None  # a dump section around a $comment
         self.pending: tuple[str, int] | None = None  # vector/real value awaiting its id
         self._id_lut = self._one_char_lut()
-        self._keys, self._key_slots = self._key_table()
+        self._keys, self._key_slots, self._key_sizes = self._key_table()
 
     # -- lookup tables for the fast path ---------------------------------------------------
     def _one_char_lut(self) -> np.ndarray:
@@ -105,15 +105,18 @@ class VcdBody:
             return _GENERAL if slots or var.kind == "real" else _UNWANTED
         return slots[0][0] if slots else _UNWANTED
 
-    def _key_table(self) -> tuple[np.ndarray, np.ndarray]:
-        """Identifier codes of 2-8 characters as sorted little-endian integers, and slots."""
-        pairs = sorted(
-            (int.from_bytes(code.encode("latin-1"), "little"), self._code_slot(code))
+    def _key_table(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """Identifier codes of 2-8 characters as sorted little-endian integers, their
+        slots and their lengths. Codes holding a NUL byte are left to the general parser
+        (as integers they would equal shorter codes)."""
+        rows = sorted(
+            (int.from_bytes(code.encode("latin-1"), "little"), self._code_slot(code), len(code))
             for code in self.declared
-            if 2 <= len(code) <= 8
+            if 2 <= len(code) <= 8 and "\0" not in code
         )
-        keys = np.array([k for k, _ in pairs], dtype=np.uint64)
-        return keys, np.array([v for _, v in pairs], dtype=np.int32)
+        keys = np.array([k for k, _, _ in rows], dtype=np.uint64)
+        slots = np.array([v for _, v, _ in rows], dtype=np.int32)
+        return keys, slots, np.array([n for _, _, n in rows], dtype=np.int64)
 
     # -- chunks ------------------------------------------------------------------------------
     def feed(self, data: bytes, first_line: int) -> int:
@@ -224,7 +227,8 @@ class VcdBody:
         )
         key = words[starts + 1] & _ID_MASKS[sizes]
         at = np.minimum(np.searchsorted(self._keys, key), self._keys.size - 1)
-        found = self._keys[at] == key
+        # a key of the same length: trailing NUL bytes must not vanish in the padding
+        found = (self._keys[at] == key) & (self._key_sizes[at] == sizes)
         slot[rows] = np.where(found, self._key_slots[at], _UNDECLARED)
 
     def _check_times(self, ticks: np.ndarray, lines: np.ndarray) -> None:
@@ -324,6 +328,12 @@ class VcdBody:
             digits = tok[1:]
             if not digits.isdigit() or not digits.isascii():
                 self._fail(f"expected a timestamp such as #100, found {tok[:40]!r}", ln)
+            if len(digits) > _MAX_TICK_DIGITS + 1 and len(digits.lstrip("0")) > 19:
+                self._fail(  # beyond int64 in any timescale; int() would refuse it anyway
+                    f"timestamp {tok[:24]}... ({len(digits)} digits) is too large to hold "
+                    "in picoseconds",
+                    ln,
+                )
             t = int(digits)
             if t < self.time or t > self.max_tick or (self.den != 1 and t % self.den):
                 self._check_time(self.time, t, ln)

@@ -26,10 +26,12 @@ _UNIT_PS = {
     "fs": Fraction(1, 1000),
 }
 _TIMESCALE = re.compile(r"^(1|10|100)\s*(s|ms|us|ns|ps|fs)$")
-_REF_RANGE = re.compile(r"^(.+?)\[(-?\d+)(?::(-?\d+))?\]$")
-_SELECT = re.compile(r"^(?P<base>.*?)\s*\[\s*(?P<bit>-?\d+)\s*\]$")
+_REF_RANGE = re.compile(r"^(.+?)\[(-?[0-9]{1,18})(?::(-?[0-9]{1,18}))?\]$")
+_SELECT = re.compile(r"^(?P<base>.*?)\s*\[\s*(?P<bit>-?[0-9]{1,18})\s*\]$")
 _SKIPPED = {"$date", "$version", "$comment"}
 _HEAD_BLOCK = 1 << 16
+_BOM = b"\xef\xbb\xbf"
+_MAX_WIDTH_DIGITS = 18  #: a wider $var than 10**18 bits cannot be real
 
 
 @dataclass(frozen=True, slots=True)
@@ -113,9 +115,12 @@ def _read_head_text(path: str) -> tuple[str, int]:
                     break
             if not block:
                 break
-            if len(data) > 64 * _HEAD_BLOCK and not data.lstrip().startswith(b"$"):
+            if len(data) > 64 * _HEAD_BLOCK and not data.lstrip(_BOM + b" \t\r\n").startswith(b"$"):
                 break  # not a VCD: stop reading early, the parser below says why
-    return data.decode("latin-1"), len(data)
+    size = len(data)
+    if data.startswith(_BOM):  # a UTF-8 byte-order mark: not part of the first keyword
+        data = b" " * len(_BOM) + data[len(_BOM) :]
+    return data.decode("latin-1"), size
 
 
 def read_header(path: str) -> VcdHeader:
@@ -128,6 +133,7 @@ def read_header(path: str) -> VcdHeader:
     scope: list[str] = []
     toks = _tokens(text, 1)
     last_line = 1
+    first_of_code: dict[str, VcdVar] = {}
 
     def section(keyword: str, line: int) -> list[tuple[str, int]]:
         body = []
@@ -159,14 +165,16 @@ def read_header(path: str) -> VcdHeader:
             words = section(tok, line)
             if len(words) != 2:
                 raise InputError("expected '$scope TYPE NAME $end'", path=path, line=line)
-            scope.append(words[1][0])
+            scope.append(_utf8(words[1][0], "$scope name", path, line))
         elif tok == "$upscope":
             section(tok, line)
             if not scope:
                 raise InputError("$upscope without a matching $scope", path=path, line=line)
             scope.pop()
         elif tok == "$var":
-            head.variables.append(_var(section(tok, line), tuple(scope), path, line))
+            var = _var(section(tok, line), tuple(scope), path, line)
+            _same_width(var, first_of_code.setdefault(var.code, var), path)
+            head.variables.append(var)
         elif tok == "$enddefinitions":
             section(tok, line)
             return head
@@ -188,14 +196,22 @@ def _var(words: list[tuple[str, int]], scope: tuple[str, ...], path: str, line: 
     if len(words) < 4:
         raise InputError("expected '$var TYPE SIZE ID NAME [range] $end'", path=path, line=line)
     kind, size, code = words[0][0], words[1][0], words[2][0]
-    ref = "".join(t for t, _ in words[3:])
-    if not size.isdigit() or int(size) < 1:
+    ref = _utf8("".join(t for t, _ in words[3:]), "$var name", path, line)
+    digits = size.lstrip("0")
+    if not (size.isascii() and size.isdigit()) or not digits:
         raise InputError(
             f"$var {ref}: width must be a whole number of bits >= 1, not {size!r}",
             path=path,
             line=line,
         )
-    width = int(size)
+    if len(digits) > _MAX_WIDTH_DIGITS:
+        raise InputError(
+            f"$var {ref}: width {size[:24]}... ({len(size)} digits) is too large; "
+            "expected a whole number of bits",
+            path=path,
+            line=line,
+        )
+    width = int(digits)
     msb, lsb, ranged = width - 1, 0, False
     m = _REF_RANGE.match(ref)
     if m:
@@ -210,6 +226,34 @@ def _var(words: list[tuple[str, int]], scope: tuple[str, ...], path: str, line: 
                 line=line,
             )
     return VcdVar(kind, width, code, ref, scope, msb, lsb, line, ranged)
+
+
+def _utf8(text: str, what: str, path: str, line: int) -> str:
+    """``text`` (read as Latin-1, one character per byte) decoded as the UTF-8 it should be."""
+    if text.isascii():
+        return text
+    raw = text.encode("latin-1")
+    try:
+        return raw.decode("utf-8")
+    except UnicodeDecodeError as e:
+        raise InputError(
+            f"{what} {text[:40]!r} is not UTF-8 text (byte 0x{raw[e.start]:02x}); "
+            "expected names in UTF-8",
+            path=path,
+            line=line,
+        ) from None
+
+
+def _same_width(var: VcdVar, first: VcdVar, path: str) -> None:
+    """Refuse a second declaration of one identifier code with another width."""
+    if var.width != first.width:
+        raise InputError(
+            f"$var {var.ref}: identifier code {var.code!r} is declared {var.width} bits wide "
+            f"here but {first.width} bits wide at line {first.line}; expected the same width "
+            "as the first declaration",
+            path=path,
+            line=var.line,
+        )
 
 
 def select(head: VcdHeader, names: Sequence[str] | None, path: str) -> list[BitSelect]:

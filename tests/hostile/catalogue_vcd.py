@@ -127,7 +127,6 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
             b"",
             Fails(r"empty file, expected a VCD header", 1),
             "exit 2 at line 1: empty file, expected a VCD header",
-            known_bug="the error names no line (the CSV reader names line 1)",
         ),
         case(
             "only blank lines",
@@ -242,13 +241,8 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
             vcd_text(_body(GOOD_TICKS), names=("Str\xf6m_H", "Str\xf6m_L")).replace(
                 b"\xc3\xb6", b"\xf6"
             ),
-            reads_good(
-                edges={
-                    "Str\xf6m_H": _edges(GOOD_TICKS, UNIT_PS["ns"])["AH"],
-                    "Str\xf6m_L": _edges(GOOD_TICKS, UNIT_PS["ns"])["AL"],
-                }
-            ),
-            "read; a name that is not UTF-8 is taken as Latin-1",
+            Fails(r"\$var name 'Str.m_H' is not UTF-8 text \(byte 0xf6\)", 4),
+            "exit 2 at the $var line: the name is not UTF-8 text",
             cli=False,
         ),
         case(
@@ -261,7 +255,6 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
                 }
             ),
             "read; names kept as UTF-8 text",
-            known_bug="the header is decoded as Latin-1: UTF-8 names come out garbled ('Zweig_\u00c3\u00a4_H')",
         ),
     ]
 
@@ -273,14 +266,12 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
             b"\xef\xbb\xbf" + GOOD_VCD,
             reads_good(),
             "read; the BOM is dropped",
-            known_bug="the BOM is taken as part of the first keyword: exit 2, 'is this a VCD file?'",
         ),
         case(
             "BOM and CRLF together",
             b"\xef\xbb\xbf" + GOOD_VCD.replace(b"\n", b"\r\n"),
             reads_good(),
             "read",
-            known_bug="the BOM is taken as part of the first keyword: exit 2, 'is this a VCD file?'",
             cli=False,
         ),
         case(
@@ -310,7 +301,6 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
             vcd_text('#0\n0!\n1"\n#' + "9" * (2 << 20) + "\n"),
             Fails(r"too large to hold in picoseconds", 11),
             "exit 2 at the line: timestamp too large; the number is shortened in the message",
-            known_bug="int() of more than 4300 digits raises ValueError (traceback)",
         ),
         case(
             "one token of 3 MiB in the body",
@@ -462,17 +452,12 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
             ),
             Fails(r"width must be a whole number of bits >= 1", 6),
             "exit 2 at the $var line: width must be a whole number >= 1",
-            known_bug="str.isdigit() accepts the Latin-1 superscript digit, int() then raises "
-            "ValueError (traceback); found by the VCD fuzz campaign",
         ),
         case(
             "NUL bytes after a multi-character identifier code",
             vcd_text("#0\n0AB\n1AC\n#100\n1AB\0\0\n", codes=("AB", "AC")),
             Fails(r"identifier code 'AB\\x00\\x00' was never declared", 12),
             "exit 2 at the line: identifier code never declared",
-            known_bug="the fast path compares codes as zero-padded 64-bit words, so trailing NUL "
-            "bytes vanish and the line reads as a change of 'AB' (the general parser refuses "
-            "it); found by the VCD fuzz campaign",
         ),
         case(
             "one identifier code declared with two widths",
@@ -484,8 +469,6 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
             "exit 2 at the second $var line: one code, two widths",
             args=("--leg", "A=bus[0],AL"),
             read_options={"channels": ["bus[0]", "AL"]},
-            known_bug="the first declaration's width is used for every value: selecting bit 0 "
-            "of the 4-bit one raises IndexError (traceback); found by the VCD fuzz campaign",
         ),
         case(
             "$var width that does not match its range",

@@ -17,9 +17,8 @@ looking for new ones; delete an entry once it is fixed.
 from __future__ import annotations
 
 import os
-import re
 from collections.abc import Iterator
-from contextlib import contextmanager
+from contextlib import contextmanager, nullcontext
 from datetime import timedelta
 from fractions import Fraction
 
@@ -51,11 +50,6 @@ FUZZ = settings(
     derandomize=CI,
     suppress_health_check=[HealthCheck.too_slow],
 )
-
-#: Known bugs the fuzzer may meet (catalogued as strict xfails in catalogue_vcd.py):
-#: a Latin-1 superscript digit as a $var width ("$var width in superscript digits"),
-#: one code declared with two widths ("one identifier code declared with two widths").
-KNOWN_CRASH = re.compile(r"invalid literal for int\(\) with base 10|string index out of range")
 
 TOKENS = [
     b" ", b"\n", b"\r\n", b"\t", b"#", b"#0", b"#-1", b"#99999999999999999999", b"$end",
@@ -97,9 +91,6 @@ def _outcome(path: str, chunk_bytes: int = 1 << 20, fast: bool = True) -> tuple:
         return ("error", e.path, e.line, e.message)
     except UsageError as e:
         return ("usage", str(e))
-    except (ValueError, IndexError) as e:
-        assume(not KNOWN_CRASH.search(str(e)))
-        raise
     finally:
         VcdBody.fast_path = True
     _assert_sound(tr)
@@ -139,11 +130,7 @@ def test_mutated_vcd_never_crashes(
         small = _outcome(path, chunk_bytes=7)
         general = _outcome(path, fast=False)
     assert small == plain, "a 7-byte read chunk changes the result"
-    if general != plain:
-        # known: NUL bytes after a multi-character code ("NUL bytes after a
-        # multi-character identifier code"); any other disagreement is new
-        assume(b"\x00" not in data)
-        raise AssertionError(f"fast path {plain!r:.300} vs general parser {general!r:.300}")
+    assert general == plain, f"fast path {plain!r:.300} vs general parser {general!r:.300}"
 
 
 @FUZZ
@@ -263,17 +250,18 @@ def _general_parser() -> Iterator[None]:
         VcdBody.fast_path = True
 
 
-def test_known_bugs_still_happen() -> None:
-    """When these are fixed, drop KNOWN_CRASH and the NUL assume() above."""
-    head = vcd_text("", extra_vars="$var wire \xb2 # bus $end\n").replace(b"\xc2\xb2", b"\xb2")
-    with _scratch(head, "t.vcd") as path, pytest.raises(ValueError, match=KNOWN_CRASH):
-        read_vcd(path)
+def test_once_known_bugs_are_refused_alike_by_both_paths() -> None:
+    """Inputs the fuzz campaign once crashed on: one line naming error, fast or general."""
     nul = vcd_text("#0\n0AB\n1AC\n#100\n1AB\0\0\n", codes=("AB", "AC"))
-    with _scratch(nul, "t.vcd") as path:
-        fast = read_vcd(path).channel("AH").times.tolist()
-        with _general_parser(), pytest.raises(InputError, match="never declared"):
-            read_vcd(path)
-    assert fast == [100_000]
+    sup = vcd_text("", extra_vars="$var wire \xb2 # bus $end\n").replace(b"\xc2\xb2", b"\xb2")
     two = vcd_text("#0\nb0 !\n#100\nb1 !\n", extra_vars="$var wire 4 ! bus [3:0] $end\n")
-    with _scratch(two, "t.vcd") as path, pytest.raises(IndexError, match=KNOWN_CRASH):
-        read_vcd(path, channels=["bus[0]"])
+    for data, channels, pattern, line in [
+        (nul, None, "identifier code 'AB\\\\x00\\\\x00' was never declared", 12),
+        (sup, None, "width must be a whole number of bits >= 1", 6),
+        (two, ["bus[0]"], "declared 4 bits wide here but 1 bits wide at line 4", 6),
+    ]:
+        with _scratch(data, "t.vcd") as path:
+            for parser in (nullcontext, _general_parser):
+                with parser(), pytest.raises(InputError, match=pattern) as caught:
+                    read_vcd(path, channels=channels)
+                assert caught.value.line == line
