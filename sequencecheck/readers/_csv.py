@@ -207,12 +207,17 @@ def _arrow_batches(
     size = os.path.getsize(path)
     row_bytes = _mean_row_bytes(path, layout.header_bytes) if progress is not None else 0
     rows = 0
-    for batch in reader:
-        t = _numpy(batch.column(0), time_type)
-        yield t, [_numpy(batch.column(i), np.int8) for i in range(1, len(columns) + 1)]
-        rows += t.size
-        if progress is not None:  # an estimate: pyarrow does not say how far it has read
-            progress(min(size, layout.header_bytes + int(rows * row_bytes)))
+    try:
+        for batch in reader:
+            t = _numpy(batch.column(0), time_type)
+            yield t, [_numpy(batch.column(i), np.int8) for i in range(1, len(columns) + 1)]
+            rows += t.size
+            if progress is not None:  # an estimate: pyarrow does not say how far it has read
+                progress(min(size, layout.header_bytes + int(rows * row_bytes)))
+    finally:  # stop pyarrow's read-ahead before an error unwinds to exit
+        close = getattr(reader, "close", None)
+        if close is not None:
+            close()
     if progress is not None:
         progress(size)
 
@@ -235,6 +240,10 @@ def _numpy(col: object, dtype: type) -> np.ndarray:
         buf = arr.buffers()[1]
         parts.append(np.frombuffer(buf, dtype=dtype, count=len(arr) + arr.offset)[arr.offset :])
     return parts[0] if len(parts) == 1 else np.concatenate(parts)
+
+
+#: What the CSV parser trims around a value (spaces and tabs only, not other white space).
+_BLANKS = " \t"
 
 
 def _short(text: str) -> str:
@@ -260,7 +269,7 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
                     path=path,
                     line=line,
                 )
-            t = row[layout.time_index].strip()
+            t = row[layout.time_index].strip(_BLANKS)
             try:
                 if layout.ps_per_tick is None:
                     int(t)
@@ -294,7 +303,7 @@ def _diagnose(path: str, layout: CsvLayout, columns: Sequence[str]) -> InputErro
                 )
             last_ps = t_ps
             for i, name in zip(idx, columns, strict=True):
-                v = row[i].strip()
+                v = row[i].strip(_BLANKS)
                 if v not in ("0", "1"):
                     return InputError(
                         f"column {name!r}: expected 0 or 1, found {_short(v)}",
