@@ -357,12 +357,16 @@ def _gap_runs(
 
 def _inside_runs(m: int, firsts: list[np.ndarray], lasts: list[np.ndarray]) -> np.ndarray:
     """Mask of the ``m`` segments covered by any run ``[firsts[i], lasts[i]]``."""
-    first = np.concatenate(firsts) if firsts else np.empty(0, dtype=np.int64)
-    if first.size == 0:
+    if sum(f.size for f in firsts) == 0:
         return np.zeros(m, dtype=bool)
-    last = np.concatenate(lasts)
-    mark = np.bincount(first, minlength=m + 1) - np.bincount(last + 1, minlength=m + 1)
-    return np.cumsum(mark[:m]) > 0
+    # one leg's runs are disjoint and never abut (a non-off segment separates them),
+    # so each leg's marks land on distinct indices; at most one +1 per leg overlaps
+    dtype = np.int8 if len(firsts) < 127 else np.int64
+    mark = np.zeros(m + 1, dtype=dtype)
+    for first, last in zip(firsts, lasts, strict=True):
+        mark[first] += 1
+        mark[last + 1] -= 1
+    return np.cumsum(mark[:m], dtype=dtype) > 0
 
 
 def handover_gaps(
@@ -398,8 +402,9 @@ def _runs(
         return Segments(e, e, e.astype(np.int32), e, e)
     first = np.ones(m, dtype=bool)
     np.not_equal(states[1:], states[:-1], out=first[1:])
-    heads = np.flatnonzero(first)
-    if heads.size == m:  # every segment its own run
+    every = bool(first.all())  # every segment its own run: no copies
+    heads = np.arange(m) if every else np.flatnonzero(first)
+    if every:
         run_s, run_e, run_states = starts, ends, states
         tails = heads
     else:
@@ -447,7 +452,7 @@ def _switch_states(trace: Trace, bridge: Bridge, channel: str) -> np.ndarray:
     """State (0 off, 1 on, 2 undefined) of ``channel``'s switch: initially, then after each edge."""
     ch = trace.channel(channel)
     levels = np.concatenate(([ch.initial], ch.levels)).astype(np.int8, copy=False)
-    state = (levels == bridge.on_level(channel)).astype(np.int64)
+    state = (levels == bridge.on_level(channel)).astype(np.int32)
     state[levels >= Level.X] = 2
     return state
 
@@ -472,18 +477,31 @@ def _keyed_segments(
     all_times = np.concatenate(times).astype(np.int64, copy=False)
     order = np.argsort(all_times, kind="stable")
     t = all_times[order]
-    keys = np.cumsum(np.concatenate(deltas)[order])
+    keys = np.concatenate(deltas)[order]  # int32: keys stay below 9**_FAST_MAX_LEGS
+    del order
+    np.cumsum(keys, out=keys)
     keys += key0
     last = np.ones(t.size, dtype=bool)  # the last edge at each distinct time
     np.not_equal(t[1:], t[:-1], out=last[:-1])
-    cut_t, cut_k = t[last], keys[last]
+    n_cuts = int(np.count_nonzero(last))
+    # cut i (the i-th distinct edge time) goes to index i + 1 of one buffer: segments'
+    # starts and ends are two overlapping views of it, so neither is a copy
+    bounds = np.empty(n_cuts + 2, dtype=np.int64)
+    np.compress(last, t, out=bounds[1 : n_cuts + 1])
+    del t
+    seg_keys = np.empty(n_cuts + 1, dtype=np.int32)
+    np.compress(last, keys, out=seg_keys[1:])
+    del keys, last
+    cut_t = bounds[1 : n_cuts + 1]
     lo = int(np.searchsorted(cut_t, start, side="right"))  # edges up to start: first segment
     hi = int(np.searchsorted(cut_t, end, side="left"))  # edges at or after end: none
-    first_key = int(cut_k[lo - 1]) if lo > 0 else key0
-    cuts = cut_t[lo:hi]
-    starts = np.concatenate(([start], cuts)).astype(np.int64, copy=False)
-    ends = np.concatenate((cuts, [end])).astype(np.int64, copy=False)
-    seg_keys = np.concatenate(([first_key], cut_k[lo:hi])).astype(np.int64, copy=False)
+    hi = max(hi, lo)
+    if lo == 0:
+        seg_keys[0] = key0  # else seg_keys[lo] is the key after the last edge up to start
+    bounds[lo] = start
+    bounds[hi + 1] = end
+    starts, ends = bounds[lo : hi + 1], bounds[lo + 1 : hi + 2]
+    seg_keys = seg_keys[lo : hi + 1]
     return starts, ends, seg_keys
 
 
