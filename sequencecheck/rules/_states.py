@@ -475,10 +475,13 @@ def _keyed_segments(
             times.append(trace.channel(channel).times)
             deltas.append(np.diff(state) * weight)
     all_times = np.concatenate(times).astype(np.int64, copy=False)
+    all_deltas = np.concatenate(deltas)
+    del times, deltas, state  # free what is no longer needed before the big arrays
     order = np.argsort(all_times, kind="stable")
     t = all_times[order]
-    keys = np.concatenate(deltas)[order]  # int32: keys stay below 9**_FAST_MAX_LEGS
-    del order
+    del all_times
+    keys = all_deltas[order]  # int32: keys stay below 9**_FAST_MAX_LEGS
+    del order, all_deltas
     np.cumsum(keys, out=keys)
     keys += key0
     last = np.ones(t.size, dtype=bool)  # the last edge at each distinct time
