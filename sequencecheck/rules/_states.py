@@ -330,6 +330,45 @@ def leg_codes(trace: Trace, bridge: Bridge, starts: np.ndarray) -> np.ndarray:
     return codes
 
 
+def _gap_runs(
+    code: np.ndarray, starts: np.ndarray, ends: np.ndarray, max_gap_ps: int
+) -> tuple[np.ndarray, np.ndarray]:
+    """First and last elementary segment of each hand-over gap of one leg (``code``:
+    the leg's code on every segment)."""
+    none = np.empty(0, dtype=np.int64)
+    off = code == LEG_OFF
+    if not off.any():
+        return none, none
+    edge = np.diff(off.view(np.int8))
+    run_first = np.flatnonzero(edge == 1) + 1  # off-runs preceded by a segment
+    run_last = np.flatnonzero(edge == -1)  # off-runs followed by a segment
+    if off[0]:
+        run_last = run_last[1:]
+    run_first = run_first[: run_last.size]
+    if run_first.size == 0:
+        return none, none
+    before, after = code[run_first - 1], code[run_last + 1]
+    sided = (before == LEG_HIGH) | (before == LEG_LOW)
+    flip = sided & ((after == LEG_HIGH) | (after == LEG_LOW)) & (before != after)
+    gap = ends[run_last] - starts[run_first]
+    keep = flip & (gap <= max_gap_ps)
+    return run_first[keep], run_last[keep]
+
+
+def _inside_runs(m: int, firsts: list[np.ndarray], lasts: list[np.ndarray]) -> np.ndarray:
+    """Mask of the ``m`` segments covered by any run ``[firsts[i], lasts[i]]``."""
+    if sum(f.size for f in firsts) == 0:
+        return np.zeros(m, dtype=bool)
+    # one leg's runs are disjoint and never abut (a non-off segment separates them),
+    # so each leg's marks land on distinct indices; at most one +1 per leg overlaps
+    dtype = np.int8 if len(firsts) < 127 else np.int64
+    mark = np.zeros(m + 1, dtype=dtype)
+    for first, last in zip(firsts, lasts, strict=True):
+        mark[first] += 1
+        mark[last + 1] -= 1
+    return np.cumsum(mark[:m], dtype=dtype) > 0
+
+
 def handover_gaps(
     codes: np.ndarray, starts: np.ndarray, ends: np.ndarray, max_gap_ps: int
 ) -> np.ndarray:
@@ -337,34 +376,14 @@ def handover_gaps(
     with both switches of the leg off, after one of its switches and before the other,
     no longer than ``max_gap_ps``."""
     m = codes.shape[0]
-    inside = np.zeros(m, dtype=bool)
     if m < 3:
-        return inside
+        return np.zeros(m, dtype=bool)
+    firsts, lasts = [], []
     for k in range(codes.shape[1]):
-        c = codes[:, k]
-        off = c == LEG_OFF
-        if not off.any():
-            continue
-        edge = np.diff(off.astype(np.int8))
-        run_first = np.flatnonzero(edge == 1) + 1  # off-runs preceded by a segment
-        run_last = np.flatnonzero(edge == -1)  # off-runs followed by a segment
-        if off[0]:
-            run_last = run_last[1:]
-        run_first = run_first[: run_last.size]
-        if run_first.size == 0:
-            continue
-        before, after = c[run_first - 1], c[run_last + 1]
-        sided = (before == LEG_HIGH) | (before == LEG_LOW)
-        flip = sided & ((after == LEG_HIGH) | (after == LEG_LOW)) & (before != after)
-        gap = ends[run_last] - starts[run_first]
-        keep = flip & (gap <= max_gap_ps)
-        if not keep.any():
-            continue
-        mark = np.zeros(m + 1, dtype=np.int32)
-        mark[run_first[keep]] += 1  # distinct runs: no index repeats
-        mark[run_last[keep] + 1] -= 1
-        inside |= np.cumsum(mark[:m]) > 0
-    return inside
+        f, la = _gap_runs(np.ascontiguousarray(codes[:, k]), starts, ends, max_gap_ps)
+        firsts.append(f)
+        lasts.append(la)
+    return _inside_runs(m, firsts, lasts)
 
 
 def _combine(codes: np.ndarray) -> np.ndarray:
@@ -372,33 +391,185 @@ def _combine(codes: np.ndarray) -> np.ndarray:
     return codes.astype(np.int64) @ weights
 
 
-def _runs(starts: np.ndarray, ends: np.ndarray, states: np.ndarray, exact: np.ndarray) -> Segments:
+def _runs(
+    starts: np.ndarray, ends: np.ndarray, states: np.ndarray, exact: np.ndarray | None
+) -> Segments:
     """Join consecutive elementary segments of equal state; ``exact`` marks those whose
-    state was decoded as such (their span is the core)."""
+    state was decoded as such (their span is the core; None: all of them)."""
     m = states.size
     if m == 0:
         e = np.empty(0, dtype=np.int64)
         return Segments(e, e, e.astype(np.int32), e, e)
     first = np.ones(m, dtype=bool)
-    first[1:] = states[1:] != states[:-1]
-    heads = np.flatnonzero(first)
-    tails = np.concatenate((heads[1:] - 1, [m - 1]))
-    core_s = starts[heads].copy()
-    core_e = ends[tails].copy()
-    if not exact.all():
+    np.not_equal(states[1:], states[:-1], out=first[1:])
+    every = bool(first.all())  # every segment its own run: no copies
+    heads = np.arange(m) if every else np.flatnonzero(first)
+    if every:
+        run_s, run_e, run_states = starts, ends, states
+        tails = heads
+    else:
+        tails = np.concatenate((heads[1:] - 1, [m - 1]))
+        run_s, run_e, run_states = starts[heads], ends[tails], states[heads]
+    core_s, core_e = run_s, run_e
+    if exact is not None and not exact.all():
+        core_s, core_e = run_s.copy(), run_e.copy()
         idx = np.arange(m)
         last_exact = np.maximum.accumulate(np.where(exact, idx, -1))[tails]
         first_exact = np.minimum.accumulate(np.where(exact, idx, m)[::-1])[::-1][heads]
         has = last_exact >= heads
         core_s[has] = starts[first_exact[has]]
         core_e[has] = ends[last_exact[has]]
-    return Segments(starts[heads], ends[tails], states[heads].astype(np.int32), core_s, core_e)
+    return Segments(run_s, run_e, run_states.astype(np.int32, copy=False), core_s, core_e)
+
+
+def _held_runs(
+    starts: np.ndarray, ends: np.ndarray, states: np.ndarray, inside: np.ndarray
+) -> Segments:
+    """``_runs`` of ``states`` with each stretch of ``inside`` segments holding the state
+    before it (segment 0 is never inside). A run starts at an exact segment whose state
+    differs from the last exact one; its core ends with its last exact segment."""
+    exact = np.flatnonzero(~inside)
+    held = states[exact]
+    first = np.ones(exact.size, dtype=bool)
+    np.not_equal(held[1:], held[:-1], out=first[1:])
+    heads = np.flatnonzero(first)
+    seg_heads = exact[heads]
+    run_s = starts[seg_heads]
+    run_e = np.concatenate((starts[seg_heads[1:]], ends[-1:]))  # segments abut
+    last_exact = exact[np.concatenate((heads[1:] - 1, [exact.size - 1]))]
+    return Segments(
+        run_s, run_e, held[heads].astype(np.int32, copy=False), run_s, ends[last_exact]
+    )
+
+
+#: Per leg of the fast decoder: 3 * high-side state + low-side state, each state
+#: 0 (off), 1 (on) or 2 (undefined); a segment's key has one base-9 digit per leg.
+_PAIR = 9
+_FAST_MAX_LEGS = 6  # 9**6 keys: lookup tables stay small
+
+
+def _switch_states(trace: Trace, bridge: Bridge, channel: str) -> np.ndarray:
+    """State (0 off, 1 on, 2 undefined) of ``channel``'s switch: initially, then after each edge."""
+    ch = trace.channel(channel)
+    levels = np.concatenate(([ch.initial], ch.levels)).astype(np.int8, copy=False)
+    state = (levels == bridge.on_level(channel)).astype(np.int32)
+    state[levels >= Level.X] = 2
+    return state
+
+
+def _keyed_segments(
+    trace: Trace, bridge: Bridge
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Elementary segments (starts, ends) and each one's key (``_PAIR`` digits per leg).
+
+    One stable sort of every edge of the bridge: the key after each edge is a running
+    sum of key changes, and a segment's key is the one after the last edge at its start.
+    """
+    start, end = trace.start_ps, trace.end_ps
+    times, deltas = [], []
+    key0 = 0
+    for k, leg in enumerate(bridge.legs):
+        for channel, weight in ((leg.high, 3 * _PAIR**k), (leg.low, _PAIR**k)):
+            state = _switch_states(trace, bridge, channel)
+            key0 += int(state[0]) * weight
+            times.append(trace.channel(channel).times)
+            deltas.append(np.diff(state) * weight)
+    all_times = np.concatenate(times).astype(np.int64, copy=False)
+    all_deltas = np.concatenate(deltas)
+    del times, deltas, state  # free what is no longer needed before the big arrays
+    order = np.argsort(all_times, kind="stable")
+    t = all_times[order]
+    del all_times
+    keys = all_deltas[order]  # int32: keys stay below 9**_FAST_MAX_LEGS
+    del order, all_deltas
+    np.cumsum(keys, out=keys)
+    keys += key0
+    last = np.ones(t.size, dtype=bool)  # the last edge at each distinct time
+    np.not_equal(t[1:], t[:-1], out=last[:-1])
+    n_cuts = int(np.count_nonzero(last))
+    # cut i (the i-th distinct edge time) goes to index i + 1 of one buffer: segments'
+    # starts and ends are two overlapping views of it, so neither is a copy
+    bounds = np.empty(n_cuts + 2, dtype=np.int64)
+    np.compress(last, t, out=bounds[1 : n_cuts + 1])
+    del t
+    seg_keys = np.empty(n_cuts + 1, dtype=np.int32)
+    np.compress(last, keys, out=seg_keys[1:])
+    del keys, last
+    cut_t = bounds[1 : n_cuts + 1]
+    lo = int(np.searchsorted(cut_t, start, side="right"))  # edges up to start: first segment
+    hi = int(np.searchsorted(cut_t, end, side="left"))  # edges at or after end: none
+    hi = max(hi, lo)
+    if lo == 0:
+        seg_keys[0] = key0  # else seg_keys[lo] is the key after the last edge up to start
+    bounds[lo] = start
+    bounds[hi + 1] = end
+    starts, ends = bounds[lo : hi + 1], bounds[lo + 1 : hi + 2]
+    seg_keys = seg_keys[lo : hi + 1]
+    return starts, ends, seg_keys
+
+
+def _key_codes(keys: np.ndarray, n_legs: int) -> np.ndarray:
+    """Leg codes (keys x legs) of fast-decoder keys."""
+    codes = np.empty((keys.size, n_legs), dtype=np.int8)
+    for k in range(n_legs):
+        pair = (keys // _PAIR**k) % _PAIR
+        hi, lo = pair // 3, pair % 3
+        code = (hi + 2 * lo).astype(np.int8)
+        code[(hi == 2) | (lo == 2)] = LEG_UNKNOWN
+        codes[:, k] = code
+    return codes
+
+
+def _decode_fast(
+    trace: Trace, bridge: Bridge, namer: StateNamer, max_gap: int
+) -> StateTimeline:
+    """``decode`` for up to ``_FAST_MAX_LEGS`` legs, through per-key lookup tables."""
+    n_legs = len(bridge.legs)
+    starts, ends, seg_keys = _keyed_segments(trace, bridge)
+    present = np.flatnonzero(np.bincount(seg_keys, minlength=1))
+    present_codes = _key_codes(present, n_legs)
+    combos = _combine(present_codes)
+    # name the combinations in the order the general decoder does (sorted combination codes)
+    uniq = _sorted_unique(combos)
+    combo_names = [namer.name(_digits(int(u), n_legs)) for u in uniq.tolist()]
+    names = list(namer.possible_names())
+    for nm in combo_names:
+        if nm not in names:
+            names.append(nm)
+    by_combo = np.array([names.index(nm) for nm in combo_names], dtype=np.int32)
+    size = _PAIR**n_legs
+    state_of = np.zeros(size, dtype=np.int32)
+    state_of[present] = by_combo[np.searchsorted(uniq, combos)]
+    raw_states = state_of[seg_keys]
+    m = starts.size
+    inside = np.zeros(m, dtype=bool)
+    if m >= 3:
+        firsts, lasts = [], []
+        all_codes = _key_codes(np.arange(size, dtype=np.int64), n_legs)
+        for k in range(n_legs):
+            code = all_codes[:, k][seg_keys]
+            f, la = _gap_runs(code, starts, ends, max_gap)
+            firsts.append(f)
+            lasts.append(la)
+        inside = _inside_runs(m, firsts, lasts)
+    raw = _runs(starts, ends, raw_states, None)
+    merged = _held_runs(starts, ends, raw_states, inside)
+    return StateTimeline(tuple(names), raw, merged, max_gap)
 
 
 def decode(trace: Trace, bridge: Bridge, handover_max_ps: int | None = None) -> StateTimeline:
     """Decode ``trace`` into bridge states (see the module docstring)."""
     namer = StateNamer(bridge)
     max_gap = DEFAULT_HANDOVER_MAX_PS if handover_max_ps is None else handover_max_ps
+    if 0 < len(bridge.legs) <= _FAST_MAX_LEGS:
+        return _decode_fast(trace, bridge, namer, max_gap)
+    return decode_general(trace, bridge, namer, max_gap)
+
+
+def decode_general(
+    trace: Trace, bridge: Bridge, namer: StateNamer, max_gap: int
+) -> StateTimeline:
+    """``decode`` for any number of legs: leg codes per segment, combined in base 5."""
     starts, ends = _elementary(trace, bridge.channels)
     raw_codes = leg_codes(trace, bridge, starts)
     combos = _combine(raw_codes)

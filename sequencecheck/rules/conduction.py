@@ -108,6 +108,16 @@ def _leg_handovers(
     return ctx.cache[key]
 
 
+def _overlaps(
+    ctx: CheckContext, leg: Leg, kind: str
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """``intersect`` of the leg's high- and low-side intervals, computed once per run."""
+    key = ("overlaps", leg.name, kind)
+    if key not in ctx.cache:
+        ctx.cache[key] = intersect(_on(ctx, leg.high, kind), _on(ctx, leg.low, kind))
+    return ctx.cache[key]
+
+
 def _check_shoot_through(ctx: CheckContext) -> RuleResult:
     result = RuleResult()
     for leg in ctx.bridge.legs:
@@ -121,7 +131,7 @@ def _check_shoot_through(ctx: CheckContext) -> RuleResult:
 def _shoot_through_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResult) -> None:
     trace, ts = ctx.trace, ctx.trace.sample_period_ps
     high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
-    starts, ends, ih, il = intersect(high, low)
+    starts, ends, ih, il = _overlaps(ctx, leg, kind)
     shown = result.listed(ctx, "shoot-through", leg.name, np.arange(starts.size))
     sh, sl = ih[shown], il[shown]
     # the later turn-on opened the overlap, the earlier turn-off closed it
@@ -227,7 +237,7 @@ def dead_time_robustness(
                 "dead-time", leg.name, gap - required, int(h.on_ps[i]), gap, required, kind
             )
     high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
-    starts, ends, ih, il = intersect(high, low)
+    starts, ends, ih, il = _overlaps(ctx, leg, kind)
     if starts.size:
         widths = ends - starts
         # the switch that turned on later turned on into a conducting complement

@@ -31,6 +31,7 @@ from ..findings import Certainty, Finding, WorstMargin
 from ..model import Source, TransitionPolicy
 from ..units import format_time
 from ._base import CheckContext, Rule, RuleResult
+from ._grouped import sum_by
 from ._states import StateTimeline, decode
 from ._transitions import CompiledPolicy, compile_policy
 
@@ -52,14 +53,13 @@ def state_summary(tl: StateTimeline, policy: CompiledPolicy | None = None) -> di
     seg = tl.merged
     dur = seg.ends - seg.starts
     n = len(tl.names)
-    time = np.zeros(n, dtype=np.int64)
-    np.add.at(time, seg.states, dur)
+    time = sum_by(seg.states, dur, n)
     visits = np.bincount(seg.states, minlength=n)
-    exact = np.zeros(n, dtype=np.int64)
-    np.add.at(exact, tl.raw.states, tl.raw.ends - tl.raw.starts)
+    exact = sum_by(tl.raw.states, tl.raw.ends - tl.raw.starts, n)
     counts = np.zeros((n, n), dtype=np.int64)
     if len(seg) > 1:
-        np.add.at(counts, (seg.states[:-1], seg.states[1:]), 1)
+        pairs = seg.states[:-1].astype(np.int64) * n + seg.states[1:]
+        counts = np.bincount(pairs, minlength=n * n).astype(np.int64).reshape(n, n)
     seen = [i for i in range(n) if visits[i] or exact[i]]
     total = int(dur.sum())
     return {
@@ -129,6 +129,8 @@ def _forbidden(
 ) -> list[Finding]:
     seg = tl.merged
     if len(seg) < 2:
+        return []
+    if not cp.forbidden.any():  # nothing forbidden: no pass over the changes
         return []
     a, b = seg.states[:-1], seg.states[1:]
     bad = np.flatnonzero(cp.forbidden[a, b])
@@ -262,14 +264,16 @@ def lap_periods(
         starts = np.concatenate(([seg.starts[0]], starts))
     period = np.searchsorted(starts, seg.starts, side="right") - 1
     dur = seg.ends - seg.starts
-    fwd = np.zeros(starts.size, dtype=np.int64)
-    rev = np.zeros(starts.size, dtype=np.int64)
     is_f, is_r = seg.states == fi, seg.states == ri
-    np.add.at(fwd, period[is_f], dur[is_f])
-    np.add.at(rev, period[is_r], dur[is_r])
+    fwd = sum_by(period[is_f], dur[is_f], starts.size)
+    rev = sum_by(period[is_r], dur[is_r], starts.size)
     drive_end = np.full(starts.size, -1, dtype=np.int64)
     drive = is_f | is_r
-    np.maximum.at(drive_end, period[drive], seg.ends[drive])
+    # periods and ends both rise with time: a period's latest end is its last one
+    in_period, drive_ends = period[drive], seg.ends[drive]
+    last = np.ones(in_period.size, dtype=bool)
+    np.not_equal(in_period[1:], in_period[:-1], out=last[:-1])
+    drive_end[in_period[last]] = np.maximum(drive_ends[last], -1)
     # |duty - 1/2| <= band  <=>  |fwd - rev| * 1e6 <= 2 * band * (fwd + rev), in exact ints
     diff, total = np.abs(fwd - rev), fwd + rev
     if total.size and int(total.max()) > 4_000_000_000_000:  # over 4 s: int64 could overflow

@@ -1,0 +1,38 @@
+"""Exact grouped sums against numpy's unbuffered ``np.add.at`` (general-purpose library)."""
+
+from __future__ import annotations
+
+import numpy as np
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from sequencecheck.rules._grouped import sum_by
+
+
+@settings(max_examples=200, deadline=None)
+@given(
+    st.integers(1, 6).flatmap(
+        lambda n: st.tuples(
+            st.just(n),
+            st.lists(
+                st.tuples(st.integers(0, n - 1), st.integers(0, 2**62 // 64)),
+                max_size=60,
+            ),
+        )
+    )
+)
+def test_sum_by_matches_add_at(case):
+    n, pairs = case
+    groups = np.array([g for g, _ in pairs], dtype=np.int64)
+    values = np.array([v for _, v in pairs], dtype=np.int64)
+    expected = np.zeros(n, dtype=np.int64)
+    np.add.at(expected, groups, values)
+    got = sum_by(groups, values, n)
+    assert got.dtype == np.int64
+    assert got.tolist() == expected.tolist()
+
+
+def test_sum_by_stays_exact_past_float_precision():
+    values = np.full(1000, 2**53 // 1000 + 12345, dtype=np.int64)
+    groups = np.zeros(1000, dtype=np.int64)
+    assert int(sum_by(groups, values, 1)[0]) == 1000 * (2**53 // 1000 + 12345)
