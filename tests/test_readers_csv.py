@@ -106,3 +106,14 @@ def test_missing_file(tmp_path):
 def test_bad_sample_rate(write_csv):
     with pytest.raises(UsageError, match=r"--sample-rate"):
         read_csv(write_csv("s,AH\n0,0\n"), sample_rate_hz=0)
+
+
+def test_large_second_times_are_exact_to_the_picosecond(write_csv):
+    """Past about 1,000 s a float64 cannot hold picosecond digits: the time text is then
+    converted exactly (checked against Python's decimal arithmetic, a general-purpose library)."""
+    from decimal import Decimal
+
+    times = ["100000.000000000000", "100000.000000100003", "100000.000000300007"]
+    tr = read_csv(write_csv("time_s,AH\n" + "".join(f"{t},{i % 2}\n" for i, t in enumerate(times))))
+    want = [int(Decimal(t) * 10**12) for t in times[1:]]
+    assert tr.channel("AH").times.tolist() == want

@@ -20,6 +20,7 @@ import re
 import stat
 from collections.abc import Callable, Iterator, Sequence
 from dataclasses import dataclass
+from decimal import ROUND_HALF_EVEN, Decimal, InvalidOperation
 
 import numpy as np
 
@@ -178,14 +179,18 @@ def _arrow_batches(
     layout: CsvLayout,
     columns: Sequence[str],
     progress: Callable[[int], None] | None = None,
+    time_as_text: bool = False,
 ) -> Iterator[tuple[np.ndarray, list[np.ndarray]]]:
-    """Yield (time column, channel columns) per pyarrow block, as numpy arrays."""
+    """Yield (time column, channel columns) per pyarrow block, as numpy arrays
+    (with ``time_as_text``, the time column as an object array of its text)."""
     import pyarrow as pa
     import pyarrow.csv as pacsv
 
     time_name = layout.names[layout.time_index]
     types = {name: pa.int8() for name in columns}
     types[time_name] = pa.int64() if layout.ps_per_tick is None else pa.float64()
+    if time_as_text:
+        types[time_name] = pa.string()
     reader = pacsv.open_csv(
         path,  # a path, never a Python file: pyarrow's read-ahead threads must not call Python
         read_options=pacsv.ReadOptions(
@@ -209,7 +214,10 @@ def _arrow_batches(
     rows = 0
     try:
         for batch in reader:
-            t = _numpy(batch.column(0), time_type)
+            if time_as_text:
+                t = np.array(batch.column(0).to_pylist(), dtype=object)
+            else:
+                t = _numpy(batch.column(0), time_type)
             yield t, [_numpy(batch.column(i), np.int8) for i in range(1, len(columns) + 1)]
             rows += t.size
             if progress is not None:  # an estimate: pyarrow does not say how far it has read
@@ -400,11 +408,19 @@ def read_csv(
             progress,
         )
         try:
-            return _assemble(path, layout, wanted, ((t, v[picks]) for t, v in raw))
+            trace = _assemble(path, layout, wanted, ((t, v[picks]) for t, v in raw))
+            return _exactly(trace, path, layout, wanted)
         except Decline:
             pass  # not the fixed layout after all: the general reader decides
     batches = _arrow_batches(path, layout, wanted, progress)
-    return _assemble(path, layout, wanted, batches)
+    return _exactly(_assemble(path, layout, wanted, batches), path, layout, wanted)
+
+
+def _exactly(trace: Trace, path: str, layout: CsvLayout, wanted: Sequence[str]) -> Trace:
+    """``trace``, or the file read again with exact time text if float times could be off."""
+    if layout.ps_per_tick is None or max(abs(trace.start_ps), abs(trace.end_ps)) < FLOAT_EXACT_PS:
+        return trace
+    return _assemble(path, layout, wanted, _arrow_batches(path, layout, wanted, time_as_text=True))
 
 
 def _first_problem(
@@ -462,6 +478,37 @@ def _first_problem(
     return InputError(message, path=path, line=first_line + row)
 
 
+#: Beyond this many picoseconds a float64 time may be off by half a picosecond or more,
+#: so such files are read again with their time text converted exactly.
+FLOAT_EXACT_PS = 2**50
+
+
+def _exact_ps(texts: np.ndarray, scale: int) -> tuple[np.ndarray, np.ndarray]:
+    """Picoseconds from time text, rounded once (half to even), and a float view for checks.
+
+    Unparsable text gives NaN in the float view and out-of-range values +inf, which the
+    row checks then name with their line.
+    """
+    ps = np.zeros(texts.size, dtype=np.int64)
+    view = np.empty(texts.size, dtype=np.float64)
+    for i, text in enumerate(texts.tolist()):
+        try:
+            d = Decimal(text.strip(_BLANKS))
+        except (InvalidOperation, ValueError):
+            view[i] = math.nan
+            continue
+        if not d.is_finite():
+            view[i] = math.nan if d.is_nan() else math.inf
+            continue
+        exact = (d * scale).to_integral_value(ROUND_HALF_EVEN)
+        if abs(exact) >= 2**63:
+            view[i] = math.inf
+            continue
+        ps[i] = int(exact)
+        view[i] = float(d)
+    return ps, view
+
+
 def _assemble(
     path: str,
     layout: CsvLayout,
@@ -484,6 +531,8 @@ def _assemble(
                 tf = None
                 with np.errstate(over="ignore"):  # out of range: named below
                     t = raw_t.astype(np.int64, copy=False) * np.int64(layout.sample_period_ps)
+            elif raw_t.dtype == object:  # time text, converted exactly
+                t, tf = _exact_ps(raw_t, layout.ps_per_tick)
             else:
                 tf = raw_t
                 with np.errstate(invalid="ignore", over="ignore"):  # nan/inf: named below

@@ -304,7 +304,6 @@ CASES: list[Case] = [
             10**17 + 1_200_013,
         ),
         "read to the exact picosecond",
-        known_bug="times are parsed as float64 before scaling: at 1e5 s one float step is 14.6 ps, so edges move by up to 11 ps",
     ),
     Case(
         "decreasing timestamps",
