@@ -68,7 +68,12 @@ def write(faulty: bool) -> None:
     keep[1:] = (np.diff(np.column_stack(list(cols.values())), axis=0) != 0).any(axis=1)
     keep[-1] = True
     np.savetxt(
-        HERE / f"{name}_changes.csv", data[keep], fmt="%d", delimiter=",", header=header, comments=""
+        HERE / f"{name}_changes.csv",
+        data[keep],
+        fmt="%d",
+        delimiter=",",
+        header=header,
+        comments="",
     )
 
 

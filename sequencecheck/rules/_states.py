@@ -437,9 +437,7 @@ def _held_runs(
     run_s = starts[seg_heads]
     run_e = np.concatenate((starts[seg_heads[1:]], ends[-1:]))  # segments abut
     last_exact = exact[np.concatenate((heads[1:] - 1, [exact.size - 1]))]
-    return Segments(
-        run_s, run_e, held[heads].astype(np.int32, copy=False), run_s, ends[last_exact]
-    )
+    return Segments(run_s, run_e, held[heads].astype(np.int32, copy=False), run_s, ends[last_exact])
 
 
 #: Per leg of the fast decoder: 3 * high-side state + low-side state, each state
@@ -457,9 +455,7 @@ def _switch_states(trace: Trace, bridge: Bridge, channel: str) -> np.ndarray:
     return state
 
 
-def _keyed_segments(
-    trace: Trace, bridge: Bridge
-) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def _keyed_segments(trace: Trace, bridge: Bridge) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Elementary segments (starts, ends) and each one's key (``_PAIR`` digits per leg).
 
     One stable sort of every edge of the bridge: the key after each edge is a running
@@ -520,9 +516,7 @@ def _key_codes(keys: np.ndarray, n_legs: int) -> np.ndarray:
     return codes
 
 
-def _decode_fast(
-    trace: Trace, bridge: Bridge, namer: StateNamer, max_gap: int
-) -> StateTimeline:
+def _decode_fast(trace: Trace, bridge: Bridge, namer: StateNamer, max_gap: int) -> StateTimeline:
     """``decode`` for up to ``_FAST_MAX_LEGS`` legs, through per-key lookup tables."""
     n_legs = len(bridge.legs)
     starts, ends, seg_keys = _keyed_segments(trace, bridge)
@@ -566,9 +560,7 @@ def decode(trace: Trace, bridge: Bridge, handover_max_ps: int | None = None) -> 
     return decode_general(trace, bridge, namer, max_gap)
 
 
-def decode_general(
-    trace: Trace, bridge: Bridge, namer: StateNamer, max_gap: int
-) -> StateTimeline:
+def decode_general(trace: Trace, bridge: Bridge, namer: StateNamer, max_gap: int) -> StateTimeline:
     """``decode`` for any number of legs: leg codes per segment, combined in base 5."""
     starts, ends = _elementary(trace, bridge.channels)
     raw_codes = leg_codes(trace, bridge, starts)
