@@ -16,20 +16,20 @@ once in ``--out``/crashes with its input, and the campaign goes on.
 from __future__ import annotations
 
 import argparse
-import hashlib
 import os
-import re
 import shutil
 import sys
 import tempfile
 import time
-import traceback
 import warnings
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parent
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(HERE))
+
+from _campaign import Campaign  # noqa: E402
 
 SLOW = 2.0  # seconds one input may take
 TABLE = b'include "input.bridge"\n0 mode coast\n+1us AL=on BL=on\n+2us AL=off\n+500ns AH=on\n'
@@ -51,26 +51,15 @@ BRIDGE_SEEDS = [
     b"min-vgs 6V resistance 10ohm\nscheme sign-magnitude\n",
 ]
 
-_seen: dict[str, int] = {}
-_out = HERE / "out-table"
-_stats = {"inputs": 0, "input_errors": 0, "usage_errors": 0, "read": 0, "slowest_ms": 0}
+CAMPAIGN = Campaign(HERE / "out-table")
 _folder = ""
-_started = time.monotonic()
-_last_summary = 0.0
-
-
-def _signature(exc: BaseException) -> str:
-    frames = [f for f in traceback.extract_tb(exc.__traceback__) if "sequencecheck" in f.filename]
-    where = f"{Path(frames[-1].filename).name}:{frames[-1].lineno}" if frames else "?"
-    shape = re.sub(r"\d+", "N", str(exc))[:80]
-    return f"{type(exc).__name__} at {where}: {shape}"
 
 
 def test_one_input(data: bytes) -> None:
     from sequencecheck.errors import InputError, UsageError
     from sequencecheck.language import read_table
 
-    _stats["inputs"] += 1
+    CAMPAIGN.stats["inputs"] += 1
     flag, body = (data[0], data[1:]) if data else (0, b"")
     table = os.path.join(_folder, "input.steps")
     with open(os.path.join(_folder, "input.bridge"), "wb") as f:
@@ -82,66 +71,37 @@ def test_one_input(data: bytes) -> None:
         warnings.simplefilter("always")
         try:
             read_table(table)
-            _stats["read"] += 1
+            CAMPAIGN.stats["read"] += 1
         except InputError as e:
-            _stats["input_errors"] += 1
+            CAMPAIGN.stats["input_errors"] += 1
             if "\n" in str(e):
-                _record(AssertionError(f"multi-line error: {e!s}"), data)
+                CAMPAIGN.record(AssertionError(f"multi-line error: {e!s}"), data)
         except UsageError:
-            _stats["usage_errors"] += 1
+            CAMPAIGN.stats["usage_errors"] += 1
         except Exception as e:  # every other exception is a crash
-            _record(e, data)
+            CAMPAIGN.record(e, data)
     took = time.monotonic() - started
-    _stats["slowest_ms"] = max(_stats["slowest_ms"], int(took * 1000))
+    CAMPAIGN.stats["slowest_ms"] = max(CAMPAIGN.stats["slowest_ms"], int(took * 1000))
     if took > SLOW:
-        _record(AssertionError(f"slow input: {took:.1f} s"), data)
+        CAMPAIGN.record(AssertionError(f"slow input: {took:.1f} s"), data)
     for w in caught:
-        _record(AssertionError(f"{w.category.__name__}: {w.message}"), data)
-    global _last_summary
-    if time.monotonic() - _last_summary > 5:
-        _last_summary = time.monotonic()
-        _out.mkdir(parents=True, exist_ok=True)
-        (_out / "summary.txt").write_text(_summary_text())
-
-
-def _record(exc: BaseException, data: bytes) -> None:
-    sig = _signature(exc)
-    _seen[sig] = _seen.get(sig, 0) + 1
-    if _seen[sig] == 1:
-        crashes = _out / "crashes"
-        crashes.mkdir(parents=True, exist_ok=True)
-        name = hashlib.sha1(data).hexdigest()[:12]
-        (crashes / f"crash-{name}.bin").write_bytes(data)
-        (crashes / f"crash-{name}.txt").write_text(
-            sig + "\n\n" + "".join(traceback.format_exception(exc))
-        )
-        print(f"\n[new crash kind #{len(_seen)}] {sig}", file=sys.stderr, flush=True)
-
-
-def _summary_text() -> str:
-    lines = [
-        f"fuzz summary: {_stats['inputs']:,} inputs in {time.monotonic() - _started:.0f} s; "
-        f"read {_stats['read']:,}, input errors {_stats['input_errors']:,}, "
-        f"usage errors {_stats['usage_errors']:,}; slowest input {_stats['slowest_ms']:,} ms; "
-        f"distinct crash kinds {len(_seen)}"
-    ]
-    lines += [f"  {n:>8,}  {sig}" for sig, n in sorted(_seen.items(), key=lambda kv: -kv[1])]
-    return "\n".join(lines) + "\n"
+        CAMPAIGN.record(AssertionError(f"{w.category.__name__}: {w.message}"), data)
+    CAMPAIGN.tick()
 
 
 def main() -> None:
-    global _out, _folder, _started
+    global _folder
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--minutes", type=float, default=5.0, help="campaign length")
     parser.add_argument("--out", default=str(HERE / "out-table"), help="crashes, corpus, summary")
     parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
     args, extra = parser.parse_known_args()
-    _out = Path(args.out)
+    CAMPAIGN.out = Path(args.out)
     _folder = tempfile.mkdtemp(
         prefix="fuzz-table-", dir="/dev/shm" if os.path.isdir("/dev/shm") else None
     )
     shutil.copy(ROOT / "samples" / "cart.bridge", os.path.join(_folder, "drive.bridge"))
-    _started = time.monotonic()
+    CAMPAIGN.started = time.monotonic()
     try:
         if args.replay:
             for p in sorted(Path(args.replay).glob("*.bin")):
@@ -155,7 +115,7 @@ def main() -> None:
             import sequencecheck.language._loader
             import sequencecheck.language._statements  # noqa: F401
 
-        corpus = _out / "corpus"
+        corpus = CAMPAIGN.out / "corpus"
         corpus.mkdir(parents=True, exist_ok=True)
         for i, seed in enumerate(SEEDS):
             (corpus / f"seed-table-{i}").write_bytes(b"\0" + seed)
@@ -179,7 +139,7 @@ def main() -> None:
         atheris.Setup(libfuzzer, test_one_input)
         atheris.Fuzz()
     finally:
-        print(_summary_text(), file=sys.stderr)
+        print(CAMPAIGN.summary_text(), file=sys.stderr)
         shutil.rmtree(_folder, ignore_errors=True)
 
 

@@ -16,20 +16,20 @@ Each distinct crash kind is recorded once in ``<out>/crashes`` with its input.
 from __future__ import annotations
 
 import argparse
-import hashlib
 import os
-import re
 import shutil
 import sys
 import tempfile
 import time
-import traceback
 import warnings
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
 ROOT = HERE.parent
 sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(HERE))
+
+from _campaign import Campaign  # noqa: E402
 
 SEEDS = [
     b"$timescale 1 ns $end\n$scope module pump $end\n$var wire 1 ! AH $end\n"
@@ -44,12 +44,8 @@ SEEDS = [
     b"$upscope $end $enddefinitions $end\r\n#0 0# 1#1 #5 1# 0#1 #7 b0\r\n#\r\n",
 ]
 
-_seen: dict[str, int] = {}
-_out = HERE / "out-vcd"
-_stats = {"inputs": 0, "input_errors": 0, "usage_errors": 0, "read": 0}
+CAMPAIGN = Campaign(HERE / "out-vcd")
 _scratch = ""
-_started = time.monotonic()
-_last_summary = 0.0
 
 
 def _options(flag: int) -> dict[str, object]:
@@ -59,13 +55,6 @@ def _options(flag: int) -> dict[str, object]:
     if flag & 0b100:
         options["channels"] = ["AH", "bus[0]"] if flag & 0b1000 else ["AH"]
     return options
-
-
-def _signature(exc: BaseException) -> str:
-    frames = [f for f in traceback.extract_tb(exc.__traceback__) if "sequencecheck" in f.filename]
-    where = f"{Path(frames[-1].filename).name}:{frames[-1].lineno}" if frames else "?"
-    shape = re.sub(r"\d+", "N", re.sub(r"'[^']*'", "'...'", str(exc)))[:80]
-    return f"{type(exc).__name__} at {where}: {shape}"
 
 
 def _outcome(options: dict[str, object], fast: bool) -> tuple:
@@ -88,7 +77,7 @@ def _outcome(options: dict[str, object], fast: bool) -> tuple:
 
 
 def test_one_input(data: bytes) -> None:
-    _stats["inputs"] += 1
+    CAMPAIGN.stats["inputs"] += 1
     flag, body = (data[0], data[1:]) if data else (0, b"")
     with open(_scratch, "wb") as f:
         f.write(body)
@@ -98,19 +87,21 @@ def test_one_input(data: bytes) -> None:
         try:
             got = _outcome(options, fast=not flag & 0b10000)
             kind = got[0]
-            _stats[{"read": "read", "error": "input_errors", "usage": "usage_errors"}[kind]] += 1
+            CAMPAIGN.stats[
+                {"read": "read", "error": "input_errors", "usage": "usage_errors"}[kind]
+            ] += 1
             if kind == "error":
                 if "\n" in got[2]:
-                    _record(AssertionError(f"multi-line error: {got[2]}"), data)
+                    CAMPAIGN.record(AssertionError(f"multi-line error: {got[2]}"), data)
                 elif (
                     got[1] is None and body and "channel" not in got[2] and "variable" not in got[2]
                 ):
-                    _record(AssertionError(f"error naming no line: {got[2]}"), data)
+                    CAMPAIGN.record(AssertionError(f"error naming no line: {got[2]}"), data)
             if options.get("chunk_bytes") or flag & 0b10000:
                 plain = {k: v for k, v in options.items() if k != "chunk_bytes"}
                 reference = _outcome(plain, fast=True)
                 if reference != got:
-                    _record(
+                    CAMPAIGN.record(
                         AssertionError(
                             f"differs from the plain reading: {_diff(got, reference)}"
                             f"{' (input holds NUL bytes)' if 0 in body else ''}"
@@ -118,14 +109,10 @@ def test_one_input(data: bytes) -> None:
                         data,
                     )
         except Exception as e:  # every other exception is a crash
-            _record(e, data)
+            CAMPAIGN.record(e, data)
     for w in caught:
-        _record(AssertionError(f"{w.category.__name__}: {w.message}"), data)
-    global _last_summary
-    if time.monotonic() - _last_summary > 5:
-        _last_summary = time.monotonic()
-        _out.mkdir(parents=True, exist_ok=True)
-        (_out / "summary.txt").write_text(_summary_text())
+        CAMPAIGN.record(AssertionError(f"{w.category.__name__}: {w.message}"), data)
+    CAMPAIGN.tick()
 
 
 def _diff(a: tuple, b: tuple) -> str:
@@ -136,43 +123,19 @@ def _diff(a: tuple, b: tuple) -> str:
     return "other rows/span" if a[1:4] != b[1:4] else "other edges"
 
 
-def _record(exc: BaseException, data: bytes) -> None:
-    sig = _signature(exc)
-    _seen[sig] = _seen.get(sig, 0) + 1
-    if _seen[sig] == 1:
-        crashes = _out / "crashes"
-        crashes.mkdir(parents=True, exist_ok=True)
-        name = hashlib.sha1(data).hexdigest()[:12]
-        (crashes / f"crash-{name}.bin").write_bytes(data)
-        (crashes / f"crash-{name}.txt").write_text(
-            sig + "\n\n" + "".join(traceback.format_exception(exc))
-        )
-        print(f"\n[new crash kind #{len(_seen)}] {sig}", file=sys.stderr, flush=True)
-
-
-def _summary_text() -> str:
-    lines = [
-        f"fuzz summary: {_stats['inputs']:,} inputs in {time.monotonic() - _started:.0f} s; "
-        f"read {_stats['read']:,}, input errors {_stats['input_errors']:,}, "
-        f"usage errors {_stats['usage_errors']:,}; distinct crash kinds {len(_seen)}"
-    ]
-    lines += [f"  {n:>8,}  {sig}" for sig, n in sorted(_seen.items(), key=lambda kv: -kv[1])]
-    return "\n".join(lines) + "\n"
-
-
 def main() -> None:
-    global _out, _scratch, _started
+    global _scratch
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--minutes", type=float, default=5.0, help="campaign length")
     parser.add_argument("--out", default=str(HERE / "out-vcd"), help="crashes, corpus, summary")
     parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
     args, extra = parser.parse_known_args()
-    _out = Path(args.out)
+    CAMPAIGN.out = Path(args.out)
     scratch_dir = tempfile.mkdtemp(
         prefix="fuzz-vcd-", dir="/dev/shm" if os.path.isdir("/dev/shm") else None
     )
     _scratch = os.path.join(scratch_dir, "input.vcd")
-    _started = time.monotonic()
+    CAMPAIGN.started = time.monotonic()
     try:
         if args.replay:
             for p in sorted(Path(args.replay).glob("*.bin")):
@@ -185,7 +148,7 @@ def main() -> None:
             import sequencecheck.readers._vcd_body
             import sequencecheck.readers._vcd_header  # noqa: F401
 
-        corpus = _out / "corpus"
+        corpus = CAMPAIGN.out / "corpus"
         corpus.mkdir(parents=True, exist_ok=True)
         for i, seed in enumerate(SEEDS):
             for flag in (0, 1, 2, 3, 4, 12, 16, 17):
@@ -202,7 +165,7 @@ def main() -> None:
         atheris.Setup(libfuzzer, test_one_input)
         atheris.Fuzz()
     finally:
-        print(_summary_text(), file=sys.stderr)
+        print(CAMPAIGN.summary_text(), file=sys.stderr)
         shutil.rmtree(scratch_dir, ignore_errors=True)
 
 
