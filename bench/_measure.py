@@ -50,8 +50,10 @@ def main() -> None:
     cpu0 = 0.0  # the check counts the whole process, imports included
     sys.path.insert(0, str(ROOT))
     if mode == "check":
+        from sequencecheck._heap import keep_freed_memory
         from sequencecheck.cli import run
 
+        keep_freed_memory()  # as the console entry point main() does
         out, sys.stdout = sys.stdout, io.StringIO()
         status = run(["check", path, *rest])
         sys.stdout = out

@@ -11,6 +11,7 @@ import sys
 from collections.abc import Sequence
 
 from .. import __version__
+from .._heap import keep_freed_memory
 from .._printable import printable
 from ..errors import SequenceCheckError
 from . import _bootstrap, _check, _deadtime, _plot
@@ -67,6 +68,7 @@ def run(argv: Sequence[str] | None = None) -> int:
 def main() -> None:
     """Console entry point: quiet on Ctrl-C and on a closed pipe (``| head``)."""
     signal.signal(signal.SIGPIPE, signal.SIG_DFL)
+    keep_freed_memory()  # large arrays are reused instead of faulted in again
     try:
         status = run()
     except KeyboardInterrupt:
