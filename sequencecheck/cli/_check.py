@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import os
 import sys
+from dataclasses import replace
 
 from ..api import check  # noqa: F401 - kept for code importing it from here
 from ..batch import check_many
@@ -158,6 +159,7 @@ def run_check(args: argparse.Namespace) -> int:
     bridge, policy = apply_physics_arguments(args, bridge, policy)
 
     bridge, policy = apply_bridge_file(args, bridge, policy)
+    policy = replace(policy, state_summary=args.states)  # decode states only when needed
     read_options = {
         "time_column": args.time_column,
         "time_unit": args.time_unit,

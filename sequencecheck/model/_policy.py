@@ -38,6 +38,9 @@ class Policy:
     conduction intervals; None means 0: the switches must never conduct together.
     ``max_findings_per_rule`` bounds the violations each rule lists per input; the
     rest are counted (``InputReport.unlisted``), so counts stay exact.
+    ``state_summary`` asks mode-transition for the time spent in each bridge state and
+    the transition counts (``extra["states"]``); without it, and with a transition
+    policy that checks nothing, the states are not decoded at all.
     """
 
     dead_time: DeadTime | None = None
@@ -51,6 +54,7 @@ class Policy:
     effective_dead_time: DeadTime | None = None
     #: most findings each rule lists per input (the rest are counted); None: no limit
     max_findings_per_rule: int | None = None
+    state_summary: bool = True
 
     def dead_time_for(self, leg: str) -> DeadTime | None:
         return self.dead_time_by_leg.get(leg, self.dead_time)

@@ -58,6 +58,15 @@ class CompiledPolicy:
     neutral_band_ppm: int
     handover_max_ps: int | None
 
+    def checks_anything(self) -> bool:
+        """False when no change of state can break this policy."""
+        return bool(
+            self.forbidden.any()
+            or self.dwell_rules
+            or self.min_dwell_in
+            or self.reversal_dwell_ps is not None
+        )
+
 
 def _error(message: str, rule: TransitionRule | None, tp: TransitionPolicy) -> InputError:
     src = None if rule is None else rule.source
