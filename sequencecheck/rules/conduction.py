@@ -36,47 +36,64 @@ class Handovers:
     switch turns on with no other turn-on or turn-off of the switch in between.
 
     ``off_ps``/``on_ps`` are the turn-off and turn-on times, ``gap_ps`` their
-    difference; ``off_lines``/``on_lines`` the input lines of those edges.
+    difference; ``lines(n)`` gives the input lines of the n-th hand-over's two edges
+    (looked up only for what is reported).
     """
 
     direction: Direction
     off_ps: np.ndarray
     on_ps: np.ndarray
-    off_lines: np.ndarray
-    on_lines: np.ndarray
+    gap_ps: np.ndarray
+    off_interval: np.ndarray  # index of the complement's interval that ended
+    on_interval: np.ndarray  # index of the switch's interval that began
+    turning_off: Intervals
+    turning_on: Intervals
 
-    @property
-    def gap_ps(self) -> np.ndarray:
-        return self.on_ps - self.off_ps
+    def lines(self, n: int) -> tuple[int, int]:
+        """Input lines of the turn-off and the turn-on of hand-over ``n``."""
+        off = self.turning_off.end_lines[self.off_interval[n]]
+        on = self.turning_on.start_lines[self.on_interval[n]]
+        return int(off), int(on)
 
 
 def handovers(turning_on: Intervals, turning_off: Intervals, direction: Direction) -> Handovers:
     """Every turn-on of one switch whose latest preceding event is the complement's
     turn-off. Turn-ons while the complement still conducts are shoot-through, not
     hand-overs, and are left out here.
+
+    One search per turn-on finds the complement's last interval starting at or before
+    it; if that interval has ended by then, its end is the latest complement turn-off
+    (intervals are disjoint, so the next one starts later still).
     """
-    idx, on_t = turning_on.edge_starts()
-    _, off_t = turning_off.edge_ends()
-    if on_t.size == 0 or off_t.size == 0:
+    first = 1 if turning_on.clipped_start else 0
+    on_t = turning_on.starts[first:]
+    n_off = len(turning_off)
+    if on_t.size == 0 or n_off == 0 or (n_off == 1 and turning_off.clipped_end):
         empty = np.empty(0, dtype=np.int64)
-        return Handovers(direction, empty, empty, empty, empty)
-    j = np.searchsorted(off_t, on_t, side="right") - 1  # latest complement turn-off <= on
-    k = np.searchsorted(turning_off.starts, on_t, side="right") - 1  # complement interval
+        return Handovers(direction, empty, empty, empty, empty, empty, turning_off, turning_on)
+    k = np.searchsorted(turning_off.starts, on_t, side="right") - 1
     kk = np.maximum(k, 0)
-    still_running = turning_off.clipped_end & (kk == len(turning_off) - 1)
-    complement_on = (k >= 0) & ((turning_off.ends[kk] > on_t) | still_running)
-    prev_own_off = np.where(
-        idx > 0, turning_on.ends[np.maximum(idx - 1, 0)], np.iinfo(np.int64).min
-    )
-    off_at = off_t[np.maximum(j, 0)]
-    valid = (j >= 0) & ~complement_on & (off_at >= prev_own_off)
-    jv = j[valid]
+    off_at = turning_off.ends[kk]
+    valid = (k >= 0) & (off_at <= on_t)
+    if turning_off.clipped_end:  # the last interval never ended: no turn-off there
+        valid &= kk != n_off - 1
+    # no own turn-off between the complement's turn-off and this turn-on
+    own_ends = turning_on.ends
+    prev_own_off = own_ends[first - 1 : -1] if first else own_ends[:-1]
+    valid[1 - first :] &= off_at[1 - first :] >= prev_own_off[: on_t.size - (1 - first)]
+    on_interval = np.flatnonzero(valid)
+    off_ps, on_ps = off_at[on_interval], on_t[on_interval]
+    off_interval = kk[on_interval]
+    on_interval += first
     return Handovers(
         direction,
-        off_t[jv],
-        on_t[valid],
-        turning_off.end_lines[jv],
-        turning_on.start_lines[idx[valid]],
+        off_ps,
+        on_ps,
+        on_ps - off_ps,
+        off_interval,
+        on_interval,
+        turning_off,
+        turning_on,
     )
 
 
@@ -309,7 +326,7 @@ def _dead_time_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResult) -
                     message=text + ("" if proven else " (inconclusive at this sample rate)"),
                     certainty=Certainty.PROVEN if proven else Certainty.INCONCLUSIVE,
                     bounds_ps=None if ts is None else (gap - ts, gap + ts),
-                    sources=_src(trace.path, int(h.off_lines[n]), int(h.on_lines[n])),
+                    sources=_src(trace.path, *h.lines(n)),
                     detail={"direction": str(h.direction), "kind": EFFECTIVE}
                     if effective
                     else {"direction": str(h.direction)},
