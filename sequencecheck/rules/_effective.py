@@ -13,7 +13,7 @@ import numpy as np
 from ..errors import InputError
 from ..model import Bridge, Leg, SwitchTiming
 from ._base import CheckContext
-from ._intervals import Intervals
+from ._intervals import EdgeLines, Intervals
 
 __all__ = [
     "check_timing_channels",
@@ -67,26 +67,31 @@ def effective_intervals(
     ends = np.minimum(ends, end_ps)
     keep = starts < ends
     starts, ends, past_end = starts[keep], ends[keep], past_end[keep]
-    start_lines, end_lines = iv.start_lines[keep], iv.end_lines[keep]
     clipped_start = bool(iv.clipped_start and keep.size and keep[0])
+    first = last = None
     if starts.size:
         first = np.ones(starts.size, dtype=bool)
         first[1:] = starts[1:] > ends[:-1]
         last = np.ones(starts.size, dtype=bool)
         last[:-1] = first[1:]
-        starts, start_lines = starts[first], start_lines[first]
-        ends, end_lines, past_end = ends[last], end_lines[last], past_end[last]
+        starts, ends, past_end = starts[first], ends[last], past_end[last]
     clipped_end = bool(past_end.size and past_end[-1])
-    if clipped_end:
-        end_lines = end_lines.copy()
-        end_lines[-1] = 0
+
+    def lines() -> tuple[np.ndarray, np.ndarray]:
+        start_lines, end_lines = iv.start_lines[keep], iv.end_lines[keep]
+        if first is not None and last is not None:
+            start_lines, end_lines = start_lines[first], end_lines[last]
+        if clipped_end:
+            end_lines = end_lines.copy()
+            end_lines[-1] = 0
+        return start_lines, end_lines
+
     return Intervals(
         starts.astype(np.int64, copy=False),
         ends.astype(np.int64, copy=False),
         clipped_start,
         clipped_end,
-        start_lines,
-        end_lines,
+        EdgeLines(lines),
     )
 
 

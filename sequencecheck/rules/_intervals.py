@@ -2,15 +2,32 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
 
 from ..model import Channel
 
-__all__ = ["Intervals", "intersect", "on_intervals"]
+__all__ = ["EdgeLines", "Intervals", "intersect", "on_intervals"]
 
-_NO_LINES = np.empty(0, dtype=np.int64)
+
+class EdgeLines:
+    """Input lines of the edges of some intervals, worked out on first use: most checks
+    report a handful of findings, so the lines of a million edges are rarely needed."""
+
+    __slots__ = ("_make", "_value")
+
+    def __init__(self, make: Callable[[], tuple[np.ndarray, np.ndarray]]) -> None:
+        self._make: Callable[[], tuple[np.ndarray, np.ndarray]] | None = make
+        self._value: tuple[np.ndarray, np.ndarray] | None = None
+
+    def get(self) -> tuple[np.ndarray, np.ndarray]:
+        """(start lines, end lines)."""
+        if self._value is None:
+            assert self._make is not None
+            self._value, self._make = self._make(), None
+        return self._value
 
 
 @dataclass(frozen=True, slots=True)
@@ -20,18 +37,25 @@ class Intervals:
     ``clipped_start`` says the first interval began before the observed window
     (its start is the window start, not an edge); ``clipped_end`` that the last
     one was still running when the window ended. ``start_lines``/``end_lines``
-    give the input line of each edge (0 where unknown or clipped).
+    give the input line of each edge (0 where unknown or clipped), from ``lines``.
     """
 
     starts: np.ndarray
     ends: np.ndarray
     clipped_start: bool
     clipped_end: bool
-    start_lines: np.ndarray
-    end_lines: np.ndarray
+    lines: EdgeLines
 
     def __len__(self) -> int:
         return int(self.starts.size)
+
+    @property
+    def start_lines(self) -> np.ndarray:
+        return self.lines.get()[0]
+
+    @property
+    def end_lines(self) -> np.ndarray:
+        return self.lines.get()[1]
 
     def edge_starts(self) -> tuple[np.ndarray, np.ndarray]:
         """Indices and times of starts that are real turn-on edges."""
@@ -45,27 +69,46 @@ class Intervals:
         return np.arange(stop), self.ends[:stop]
 
 
+def _switched_on(ch: Channel, on_level: int) -> np.ndarray:
+    """Whether the switch is on at the start, then after each edge."""
+    on = np.empty(ch.levels.size + 1, dtype=bool)
+    on[0] = ch.initial == on_level
+    np.equal(ch.levels, on_level, out=on[1:])
+    return on
+
+
+def _rises_and_falls(on: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Indices of the edges that turn the switch on, and of those that turn it off."""
+    return np.flatnonzero(~on[:-1] & on[1:]), np.flatnonzero(on[:-1] & ~on[1:])
+
+
+def _interval_lines(ch: Channel, on_level: int) -> tuple[np.ndarray, np.ndarray]:
+    on = _switched_on(ch, on_level)
+    rise, fall = _rises_and_falls(on)
+    lines = ch.lines if ch.lines is not None else np.zeros(ch.levels.size, dtype=np.int64)
+    start_lines, end_lines = lines[rise].astype(np.int64), lines[fall].astype(np.int64)
+    if on[0]:
+        start_lines = np.concatenate(([0], start_lines))
+    if on[-1]:
+        end_lines = np.concatenate((end_lines, [0]))
+    return start_lines, end_lines
+
+
 def on_intervals(ch: Channel, on_level: int, start_ps: int, end_ps: int) -> Intervals:
     """Where ``ch`` holds ``on_level`` inside ``[start_ps, end_ps]``.
 
     Undefined levels (X, Z) count as not on; the unknown-state rule reports them.
     """
-    on = np.empty(ch.levels.size + 1, dtype=bool)
-    on[0] = ch.initial == on_level
-    np.equal(ch.levels, on_level, out=on[1:])
-    rise = np.flatnonzero(~on[:-1] & on[1:])
-    fall = np.flatnonzero(on[:-1] & ~on[1:])
-    lines = ch.lines if ch.lines is not None else np.zeros(ch.levels.size, dtype=np.int64)
+    on = _switched_on(ch, on_level)
+    rise, fall = _rises_and_falls(on)
     starts, ends = ch.times[rise], ch.times[fall]
-    start_lines, end_lines = lines[rise], lines[fall]
     clipped_start, clipped_end = bool(on[0]), bool(on[-1])
     if clipped_start:
         starts = np.concatenate(([start_ps], starts)).astype(np.int64, copy=False)
-        start_lines = np.concatenate(([0], start_lines)).astype(np.int64, copy=False)
     if clipped_end:
         ends = np.concatenate((ends, [end_ps])).astype(np.int64, copy=False)
-        end_lines = np.concatenate((end_lines, [0])).astype(np.int64, copy=False)
-    return Intervals(starts, ends, clipped_start, clipped_end, start_lines, end_lines)
+    lines = EdgeLines(lambda: _interval_lines(ch, on_level))
+    return Intervals(starts, ends, clipped_start, clipped_end, lines)
 
 
 def intersect(a: Intervals, b: Intervals) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:

@@ -35,25 +35,35 @@ class Handovers:
     """Complementary hand-overs in one direction: the complement turns off, then the
     switch turns on with no other turn-on or turn-off of the switch in between.
 
-    ``off_ps``/``on_ps`` are the turn-off and turn-on times, ``gap_ps`` their
-    difference; ``lines(n)`` gives the input lines of the n-th hand-over's two edges
-    (looked up only for what is reported).
+    Hand-over ``n`` is the turn-on that starts interval ``on_interval[n]`` of
+    ``turning_on``, ``gap_ps[n]`` after the complement's turn-off. Only these two
+    arrays are kept per hand-over; times and input lines are looked up for the few
+    that are reported.
     """
 
     direction: Direction
-    off_ps: np.ndarray
-    on_ps: np.ndarray
     gap_ps: np.ndarray
-    off_interval: np.ndarray  # index of the complement's interval that ended
-    on_interval: np.ndarray  # index of the switch's interval that began
+    on_interval: np.ndarray
     turning_off: Intervals
     turning_on: Intervals
 
+    def __len__(self) -> int:
+        return int(self.gap_ps.size)
+
+    def on_at(self, n: int) -> int:
+        """Time of the turn-on of hand-over ``n``."""
+        return int(self.turning_on.starts[self.on_interval[n]])
+
+    def off_at(self, n: int) -> int:
+        """Time of the complement's turn-off before hand-over ``n``."""
+        return self.on_at(n) - int(self.gap_ps[n])
+
     def lines(self, n: int) -> tuple[int, int]:
         """Input lines of the turn-off and the turn-on of hand-over ``n``."""
-        off = self.turning_off.end_lines[self.off_interval[n]]
-        on = self.turning_on.start_lines[self.on_interval[n]]
-        return int(off), int(on)
+        off = int(np.searchsorted(self.turning_off.ends, self.off_at(n)))
+        return int(self.turning_off.end_lines[off]), int(
+            self.turning_on.start_lines[self.on_interval[n]]
+        )
 
 
 def handovers(turning_on: Intervals, turning_off: Intervals, direction: Direction) -> Handovers:
@@ -70,31 +80,23 @@ def handovers(turning_on: Intervals, turning_off: Intervals, direction: Directio
     n_off = len(turning_off)
     if on_t.size == 0 or n_off == 0 or (n_off == 1 and turning_off.clipped_end):
         empty = np.empty(0, dtype=np.int64)
-        return Handovers(direction, empty, empty, empty, empty, empty, turning_off, turning_on)
+        return Handovers(direction, empty, empty, turning_off, turning_on)
     k = np.searchsorted(turning_off.starts, on_t, side="right") - 1
-    kk = np.maximum(k, 0)
-    off_at = turning_off.ends[kk]
-    valid = (k >= 0) & (off_at <= on_t)
+    np.maximum(k, 0, out=k)  # k = -1 (no complement interval yet) fails the test below
+    gap = on_t - turning_off.ends[k]
+    valid = (gap >= 0) & (turning_off.starts[k] <= on_t)
     if turning_off.clipped_end:  # the last interval never ended: no turn-off there
-        valid &= kk != n_off - 1
+        valid &= k != n_off - 1
+    del k
     # no own turn-off between the complement's turn-off and this turn-on
     own_ends = turning_on.ends
     prev_own_off = own_ends[first - 1 : -1] if first else own_ends[:-1]
-    valid[1 - first :] &= off_at[1 - first :] >= prev_own_off[: on_t.size - (1 - first)]
+    skip = 1 - first  # the first turn-on has no own turn-off before it unless clipped
+    valid[skip:] &= on_t[skip:] - gap[skip:] >= prev_own_off[: on_t.size - skip]
     on_interval = np.flatnonzero(valid)
-    off_ps, on_ps = off_at[on_interval], on_t[on_interval]
-    off_interval = kk[on_interval]
+    gap = gap[on_interval]
     on_interval += first
-    return Handovers(
-        direction,
-        off_ps,
-        on_ps,
-        on_ps - off_ps,
-        off_interval,
-        on_interval,
-        turning_off,
-        turning_on,
-    )
+    return Handovers(direction, gap, on_interval, turning_off, turning_on)
 
 
 def _src(path: str, *lines: int) -> tuple[Source, ...]:
@@ -202,7 +204,7 @@ def _shoot_through_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResul
     else:
         pairs = [h for h in _leg_handovers(ctx, leg, kind) if h.gap_ps.size]
         if pairs:
-            at = [h.on_ps[int(np.argmin(h.gap_ps))] for h in pairs]
+            at = [h.on_at(int(np.argmin(h.gap_ps))) for h in pairs]
             mins = [int(h.gap_ps.min()) for h in pairs]
             i = int(np.argmin(mins))
             result.margins.append(
@@ -218,7 +220,7 @@ def _direction_stats(h: Handovers, required: int | None, ts: int | None) -> Dire
     not_proven = 0
     if required is not None and ts is not None:
         not_proven = int(np.count_nonzero((gaps >= required) & (gaps - ts < required)))
-    return DirectionStats(int(gaps.size), int(gaps[i]), int(h.on_ps[i]), not_proven)
+    return DirectionStats(int(gaps.size), int(gaps[i]), h.on_at(i), not_proven)
 
 
 def _required_dead_time(ctx: CheckContext, leg: Leg, kind: str) -> DeadTime | None:
@@ -251,7 +253,7 @@ def dead_time_robustness(
         gap = int(h.gap_ps[i])
         if worst is None or gap - required < worst.margin_ps:
             worst = WorstMargin(
-                "dead-time", leg.name, gap - required, int(h.on_ps[i]), gap, required, kind
+                "dead-time", leg.name, gap - required, h.on_at(i), gap, required, kind
             )
     high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
     starts, ends, ih, il = _overlaps(ctx, leg, kind)
@@ -301,7 +303,7 @@ def _dead_time_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResult) -
             (leg.high, leg.low) if h.direction is Direction.HIGH_TO_LOW else (leg.low, leg.high)
         )
         for n in result.listed(ctx, "dead-time", leg.name, bad).tolist():
-            off, on, gap = int(h.off_ps[n]), int(h.on_ps[n]), int(gaps[n])
+            off, on, gap = h.off_at(n), h.on_at(n), int(gaps[n])
             proven = ts is None or gap + ts <= required
             if effective:
                 text = (
