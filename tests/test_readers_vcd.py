@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import numpy as np
 import pytest
 from conftest import run_cli
 
@@ -235,3 +236,19 @@ def test_pump_inverter_sample():
     (dead,) = [v for v in doc["violations"] if v["rule"] == "dead-time"]
     assert (dead["leg"], dead["measured_ps"]) == ("V", 80_000)
     assert dead["sources"][-1]["line"] == 383
+
+
+@pytest.mark.parametrize("first_line", [1, 2**31 - 40, 2**31 + 7])
+def test_line_numbers_past_int32_stay_exact(vcd, first_line):
+    """Lines are kept as int32 until a chunk could pass 2**31 - 1, then as int64."""
+    from sequencecheck.readers._vcd_body import VcdBody
+    from sequencecheck.readers._vcd_header import read_header, select
+
+    path = vcd("")
+    head = read_header(path)
+    body = VcdBody(path, head, select(head, ["la"], path))
+    chunk = b'#0\n0"\n' + b"".join(b'#%d\n%d"\n' % (k + 1, (k + 1) % 2) for k in range(20))
+    body.feed(chunk, first_line)
+    lines = body.lines[0].view()
+    assert lines.tolist() == [first_line + 1] + [first_line + 3 + 2 * k for k in range(20)]
+    assert lines.dtype == (np.int32 if first_line + len(chunk) < 2**31 - 1 else np.int64)

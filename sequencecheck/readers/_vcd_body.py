@@ -50,6 +50,10 @@ class GrowingArray:
         self._data[self.size : end] = values
         self.size = end
 
+    def widen(self, dtype: type) -> None:
+        """Hold the values as ``dtype`` from now on."""
+        self._data = self._data[: self.size].astype(dtype)
+
     def view(self) -> np.ndarray:
         return self._data[: self.size]
 
@@ -80,7 +84,9 @@ class VcdBody:
         n = len(self.slot_of)
         self.times = [GrowingArray(np.int64) for _ in range(n)]
         self.levels = [GrowingArray(np.int8) for _ in range(n)]
-        self.lines = [GrowingArray(np.int64) for _ in range(n)]
+        # line numbers as int32 (half the memory) until a file is long enough to need more
+        self.line_dtype: type = np.int32
+        self.lines = [GrowingArray(self.line_dtype) for _ in range(n)]
         self.time = -1  # current time in ticks; -1 before the first timestamp
         self.first_time: int | None = None
         self.changes = 0
@@ -126,6 +132,10 @@ class VcdBody:
         Runs of plain lines go through the numpy fast path; from the first line it
         cannot take, the general parser runs until no section or value is open.
         """
+        if self.line_dtype is np.int32 and first_line + len(data) >= 2**31 - 1:
+            self.line_dtype = np.int64  # every line has a byte: past here lines may not fit
+            for lines in self.lines:
+                lines.widen(np.int64)
         pos, line = 0, first_line
         while pos < len(data):
             taken = 0
@@ -204,7 +214,7 @@ class VcdBody:
             picked = c_idx[order]
             t_of_change = table[np.cumsum(is_time, dtype=np.int32)[picked]]
             level = _VALUE_LUT[head[picked]].astype(np.int8)
-            lines = picked.astype(np.int64) + first_line
+            lines = picked.astype(self.line_dtype) + first_line
             bounds = np.concatenate(([0], np.cumsum(counts)))
             for s in np.flatnonzero(counts).tolist():
                 a, b = int(bounds[s]), int(bounds[s + 1])
@@ -303,7 +313,7 @@ class VcdBody:
                 s,
                 np.array(t, dtype=np.int64),
                 np.array(v, dtype=np.int8),
-                np.array(lines, dtype=np.int64),
+                np.array(lines, dtype=self.line_dtype),
             )
         return i - pos, n
 
