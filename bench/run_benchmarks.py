@@ -109,6 +109,7 @@ def bench_vcd(repeat: int) -> None:
     path = make_vcd(10_000_000)
     runs = {
         "sequencecheck check (end to end)": ("check", path, *CHECK),
+        "check --states (states decoded too)": ("check", path, *CHECK, "--states"),
         "read_vcd (our reader alone)": ("read-vcd", path),
         "read_vcd, plain Python path only": ("read-vcd-general", path),
         "pywellen parse only (Rust)": ("pywellen", path),

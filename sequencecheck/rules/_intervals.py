@@ -12,22 +12,35 @@ from ..model import Channel
 __all__ = ["EdgeLines", "Intervals", "intersect", "on_intervals"]
 
 
+Pick = Callable[[np.ndarray, bool], np.ndarray]
+
+
 class EdgeLines:
-    """Input lines of the edges of some intervals, worked out on first use: most checks
-    report a handful of findings, so the lines of a million edges are rarely needed."""
+    """Input lines of the edges of some intervals, worked out when asked: most checks
+    report a handful of findings, so the lines of a million edges are rarely needed.
 
-    __slots__ = ("_make", "_value")
+    ``make`` gives every line (start lines, end lines); ``pick``, if given, the lines
+    of some intervals only (their indices, and True for starts, False for ends).
+    """
 
-    def __init__(self, make: Callable[[], tuple[np.ndarray, np.ndarray]]) -> None:
-        self._make: Callable[[], tuple[np.ndarray, np.ndarray]] | None = make
+    __slots__ = ("_make", "_pick", "_value")
+
+    def __init__(self, make: Callable[[], tuple[np.ndarray, np.ndarray]], pick: Pick | None = None):
+        self._make = make
+        self._pick = pick
         self._value: tuple[np.ndarray, np.ndarray] | None = None
 
     def get(self) -> tuple[np.ndarray, np.ndarray]:
-        """(start lines, end lines)."""
+        """(start lines, end lines) of every interval."""
         if self._value is None:
-            assert self._make is not None
-            self._value, self._make = self._make(), None
+            self._value = self._make()
         return self._value
+
+    def at(self, idx: np.ndarray, starts: bool) -> np.ndarray:
+        """Lines of the starts (or ends) of intervals ``idx``."""
+        if self._value is None and self._pick is not None:
+            return self._pick(np.asarray(idx, dtype=np.int64), starts)
+        return self.get()[0 if starts else 1][idx]
 
 
 @dataclass(frozen=True, slots=True)
@@ -56,6 +69,14 @@ class Intervals:
     @property
     def end_lines(self) -> np.ndarray:
         return self.lines.get()[1]
+
+    def start_lines_at(self, idx: np.ndarray) -> np.ndarray:
+        """Input lines of the starts of intervals ``idx`` (0 where clipped)."""
+        return self.lines.at(idx, True)
+
+    def end_lines_at(self, idx: np.ndarray) -> np.ndarray:
+        """Input lines of the ends of intervals ``idx`` (0 where clipped)."""
+        return self.lines.at(idx, False)
 
     def edge_starts(self) -> tuple[np.ndarray, np.ndarray]:
         """Indices and times of starts that are real turn-on edges."""
@@ -107,7 +128,23 @@ def on_intervals(ch: Channel, on_level: int, start_ps: int, end_ps: int) -> Inte
         starts = np.concatenate(([start_ps], starts)).astype(np.int64, copy=False)
     if clipped_end:
         ends = np.concatenate((ends, [end_ps])).astype(np.int64, copy=False)
-    lines = EdgeLines(lambda: _interval_lines(ch, on_level))
+
+    def pick(idx: np.ndarray, of_starts: bool) -> np.ndarray:
+        """Each interval's edge is the channel's edge at that time (times are strictly
+        increasing); the clipped first start and last end are no edge (line 0)."""
+        at = (starts if of_starts else ends)[idx]
+        if ch.lines is None or ch.times.size == 0:
+            return np.zeros(idx.size, dtype=np.int64)
+        edge = np.minimum(np.searchsorted(ch.times, at), ch.times.size - 1)
+        found = ch.lines[edge].astype(np.int64)
+        clipped = (idx == 0) if of_starts and clipped_start else None
+        if not of_starts and clipped_end:
+            clipped = idx == ends.size - 1
+        if clipped is not None:
+            found[clipped] = 0
+        return found
+
+    lines = EdgeLines(lambda: _interval_lines(ch, on_level), pick)
     return Intervals(starts, ends, clipped_start, clipped_end, lines)
 
 

@@ -60,9 +60,10 @@ class Handovers:
 
     def lines(self, n: int) -> tuple[int, int]:
         """Input lines of the turn-off and the turn-on of hand-over ``n``."""
-        off = int(np.searchsorted(self.turning_off.ends, self.off_at(n)))
-        return int(self.turning_off.end_lines[off]), int(
-            self.turning_on.start_lines[self.on_interval[n]]
+        off = np.searchsorted(self.turning_off.ends, [self.off_at(n)])
+        on = self.on_interval[n : n + 1]
+        return int(self.turning_off.end_lines_at(off)[0]), int(
+            self.turning_on.start_lines_at(on)[0]
         )
 
 
@@ -155,9 +156,11 @@ def _shoot_through_leg(ctx: CheckContext, leg: Leg, kind: str, result: RuleResul
     sh, sl = ih[shown], il[shown]
     # the later turn-on opened the overlap, the earlier turn-off closed it
     open_line = np.where(
-        high.starts[sh] >= low.starts[sl], high.start_lines[sh], low.start_lines[sl]
+        high.starts[sh] >= low.starts[sl], high.start_lines_at(sh), low.start_lines_at(sl)
     )
-    close_line = np.where(high.ends[sh] <= low.ends[sl], high.end_lines[sh], low.end_lines[sl])
+    close_line = np.where(
+        high.ends[sh] <= low.ends[sl], high.end_lines_at(sh), low.end_lines_at(sl)
+    )
     effective = kind == EFFECTIVE
     for s, e, ol, cl in zip(
         starts[shown].tolist(),
