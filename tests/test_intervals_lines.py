@@ -1,5 +1,5 @@
-"""Input lines of interval edges looked up for a few intervals equal the full list, which
-is worked out edge by edge in plain Python here (edges at the window's ends included)."""
+"""On-intervals (times, and input lines looked up for a few or for all) against a walk
+over the edges in plain Python (edges at the window's ends, X and Z levels included)."""
 
 from __future__ import annotations
 
@@ -32,22 +32,22 @@ def channels(draw):
     return ch, draw(st.sampled_from([0, 1])), end
 
 
-def _walk(ch: Channel, on_level: int) -> tuple[list[int], list[int]]:
-    """Start and end lines by walking the edges one by one."""
+def _walk(ch: Channel, on_level: int, end: int) -> tuple[list, list]:
+    """(time, line) of each interval's start and end, walking the edges one by one."""
     starts, ends = [], []
     on = ch.initial == on_level
     if on:
-        starts.append(0)  # clipped: no edge
+        starts.append((0, 0))  # clipped: the window's start, no edge
     lines = ch.lines.tolist() if ch.lines is not None else [0] * ch.times.size
-    for level, line in zip(ch.levels.tolist(), lines, strict=True):
+    for t, level, line in zip(ch.times.tolist(), ch.levels.tolist(), lines, strict=True):
         now = level == on_level
         if now and not on:
-            starts.append(line)
+            starts.append((t, line))
         elif on and not now:
-            ends.append(line)
+            ends.append((t, line))
         on = now
     if on:
-        ends.append(0)
+        ends.append((end, 0))
     return starts, ends
 
 
@@ -55,8 +55,10 @@ def _walk(ch: Channel, on_level: int) -> tuple[list[int], list[int]]:
 def test_picked_lines_match_the_walk(case, data):
     ch, on_level, end = case
     iv = on_intervals(ch, on_level, 0, end)
-    want_starts, want_ends = _walk(ch, on_level)
-    assert len(iv) == len(want_starts) == len(want_ends)
+    walked_starts, walked_ends = _walk(ch, on_level, end)
+    assert iv.starts.tolist() == [t for t, _ in walked_starts]
+    assert iv.ends.tolist() == [t for t, _ in walked_ends]
+    want_starts, want_ends = [ln for _, ln in walked_starts], [ln for _, ln in walked_ends]
     if len(iv) == 0:
         return
     idx = np.array(data.draw(st.lists(st.integers(0, len(iv) - 1), max_size=6)), dtype=np.int64)

@@ -115,15 +115,35 @@ def _interval_lines(ch: Channel, on_level: int) -> tuple[np.ndarray, np.ndarray]
     return start_lines, end_lines
 
 
+def _edge_times(ch: Channel, on: np.ndarray, on_level: int) -> tuple[np.ndarray, np.ndarray]:
+    """Times of the turn-on and of the turn-off edges.
+
+    Edges always change the level, so a channel with only 0/1 levels alternates between
+    on and off from its first edge: every other edge turns the switch on, and both lists
+    are read-only strided views of the channel's times (no copy). Otherwise, with X or Z
+    levels, the edges are picked one by one.
+    """
+    times, levels = ch.times, ch.levels
+    if levels.size and int(levels.max()) <= 1 and int(levels.min()) >= 0:
+        first_on = 0 if levels[0] == on_level else 1
+        first_off = 1 - first_on
+        if first_off == 0 and not on[0]:  # off to off at the first edge: X before it
+            first_off = 2
+        starts, ends = times[first_on::2], times[first_off::2]
+        starts.flags.writeable = ends.flags.writeable = False
+        return starts, ends
+    rise, fall = _rises_and_falls(on)
+    return times[rise], times[fall]
+
+
 def on_intervals(ch: Channel, on_level: int, start_ps: int, end_ps: int) -> Intervals:
     """Where ``ch`` holds ``on_level`` inside ``[start_ps, end_ps]``.
 
     Undefined levels (X, Z) count as not on; the unknown-state rule reports them.
     """
     on = _switched_on(ch, on_level)
-    rise, fall = _rises_and_falls(on)
-    starts, ends = ch.times[rise], ch.times[fall]
     clipped_start, clipped_end = bool(on[0]), bool(on[-1])
+    starts, ends = _edge_times(ch, on, on_level)
     if clipped_start:
         starts = np.concatenate(([start_ps], starts)).astype(np.int64, copy=False)
     if clipped_end:
