@@ -81,8 +81,11 @@ def read_vcd(
     selects = select(head, channels, path)
     body = VcdBody(path, head, selects)
     line = head.body_line
-    for data, done in _chunks(path, head.body_offset, chunk_bytes):
+    body_bytes = os.path.getsize(path) - head.body_offset
+    for n, (data, done) in enumerate(_chunks(path, head.body_offset, chunk_bytes)):
         line = body.feed(data, line)
+        if n == 0 and body_bytes > 0:  # size the edge arrays from what one chunk held
+            body.expect((done - head.body_offset) / body_bytes)
         if progress is not None:
             progress(done)
     body.finish(line)

@@ -30,6 +30,7 @@ _UNDECLARED, _GENERAL, _UNWANTED = -3, -2, -1
 #: Masks keeping the first n bytes (n = 0..8) of a little-endian 64-bit word.
 _ID_MASKS = np.array([(1 << (8 * n)) - 1 for n in range(8)] + [2**64 - 1], dtype=np.uint64)
 _MAX_TICK_DIGITS = 18
+_MAX_RESERVE = 1 << 26  # edges per channel reserved ahead at most
 
 
 class GrowingArray:
@@ -49,6 +50,14 @@ class GrowingArray:
             self._data = bigger
         self._data[self.size : end] = values
         self.size = end
+
+    def reserve(self, capacity: int) -> None:
+        """Make room for ``capacity`` values now (room never written is never resident),
+        so that growing by doubling does not copy what was read so far again and again."""
+        if capacity > self._data.size:
+            bigger = np.empty(capacity, dtype=self._data.dtype)
+            bigger[: self.size] = self._data[: self.size]
+            self._data = bigger
 
     def widen(self, dtype: type) -> None:
         """Hold the values as ``dtype`` from now on."""
@@ -149,6 +158,16 @@ class VcdBody:
             pos += used
             line += lines
         return line
+
+    def expect(self, fraction_read: float) -> None:
+        """Reserve room for each channel's edges as if the rest of the file were like the
+        part read so far (``fraction_read`` of the body); at most ``_MAX_RESERVE`` edges."""
+        if not 0 < fraction_read < 1:
+            return
+        for arrays in (self.times, self.levels, self.lines):
+            for a in arrays:
+                guess = int(a.size / fraction_read * 1.05) + 4096
+                a.reserve(min(guess, a.size + _MAX_RESERVE))
 
     def _store(self, slot: int, t: np.ndarray, v: np.ndarray, ln: np.ndarray) -> None:
         self.times[slot].extend(t)
