@@ -49,11 +49,12 @@ def main() -> None:
     mode, path, *rest = sys.argv[1:]
     cpu0 = 0.0  # the check counts the whole process, imports included
     sys.path.insert(0, str(ROOT))
+    from sequencecheck._heap import keep_freed_memory
+
+    keep_freed_memory()  # every contender gets the allocator setting the command line uses
     if mode == "check":
-        from sequencecheck._heap import keep_freed_memory
         from sequencecheck.cli import run
 
-        keep_freed_memory()  # as the console entry point main() does
         out, sys.stdout = sys.stdout, io.StringIO()
         status = run(["check", path, *rest])
         sys.stdout = out
