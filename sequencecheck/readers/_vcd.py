@@ -31,7 +31,7 @@ from ._vcd_header import read_header, select
 
 __all__ = ["DEFAULT_CHUNK_BYTES", "read_vcd"]
 
-DEFAULT_CHUNK_BYTES = 1 << 20
+DEFAULT_CHUNK_BYTES = 1 << 18  # 256 KiB: the per-line arrays of a chunk stay in cache
 
 
 def _chunks(path: str, offset: int, chunk_bytes: int) -> Iterator[tuple[bytes, int]]:

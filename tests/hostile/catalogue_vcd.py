@@ -84,7 +84,7 @@ def _write(folder: Path, data: bytes, name: str = "capture.vcd") -> Path:
 
 
 def _many_on_one_line(n: int) -> bytes:
-    """``n`` PWM periods, every token on one line of several MiB (crosses 1 MiB chunks)."""
+    """``n`` PWM periods, every token on one line of several MiB (crosses read chunks)."""
     parts = ['#0 $dumpvars 0! 1" $end']
     for k in range(n):
         base = 1000 * (k + 1)
@@ -285,7 +285,7 @@ def vcd_cases(Case: Any, Fails: Any, Reads: Any) -> list[Any]:
             f"{_MANY:,} periods on one line of 2 MiB",
             lambda d: _write(d, _many_on_one_line(_MANY)),
             Reads(2 + 4 * _MANY, _many_edges(_MANY), 0, 1000 * (_MANY + 1) * NS),
-            "read; a line longer than the 1 MiB read chunk is cut between tokens",
+            "read; a line longer than the 256 KiB read chunk is cut between tokens",
         ),
         case(
             "$comment of 3 MiB in the header",
