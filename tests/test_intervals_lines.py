@@ -8,7 +8,7 @@ from hypothesis import given
 from hypothesis import strategies as st
 
 from sequencecheck.model import Channel, Level
-from sequencecheck.rules._intervals import on_intervals
+from sequencecheck.rules._intervals import EdgeLines, Intervals, intersect, on_intervals, rank_in
 
 LEVELS = [0, 1, 0, 1, int(Level.X), int(Level.Z)]
 
@@ -66,3 +66,35 @@ def test_picked_lines_match_the_walk(case, data):
     assert iv.end_lines_at(idx).tolist() == [want_ends[i] for i in idx]
     assert iv.start_lines.tolist() == want_starts  # every line at once
     assert iv.end_lines.tolist() == want_ends
+
+
+@st.composite
+def interval_sets(draw):
+    """Sorted, disjoint intervals; zero-length ones only at the window's ends, as a
+    clipped first or last interval can be."""
+    cuts = sorted(draw(st.lists(st.integers(0, 60), max_size=14, unique=True)))
+    cuts = cuts[: len(cuts) // 2 * 2]
+    starts, ends = cuts[0::2], cuts[1::2]
+    if draw(st.booleans()):
+        starts, ends = [0, *starts], [0, *ends]  # zero length at the window start
+    if draw(st.booleans()):
+        starts, ends = [*starts, 61], [*ends, 61]  # zero length at the window end
+    if starts and starts[0] == 0 and len(starts) > 1 and starts[1] == 0:
+        starts, ends = starts[1:], ends[1:]
+    arr = np.array(starts, dtype=np.int64), np.array(ends, dtype=np.int64)
+    return Intervals(*arr, False, False, EdgeLines(lambda: (arr[0] * 0, arr[1] * 0)))
+
+
+@given(interval_sets(), interval_sets(), st.booleans())
+def test_intersect_matches_every_pair(a, b, give_ranks):
+    """Every pair of intervals compared (O(n m)) against the linear intersect."""
+    want = [
+        (max(sa, sb), min(ea, eb), i, j)
+        for i, (sa, ea) in enumerate(zip(a.starts.tolist(), a.ends.tolist(), strict=True))
+        for j, (sb, eb) in enumerate(zip(b.starts.tolist(), b.ends.tolist(), strict=True))
+        if min(ea, eb) > max(sa, sb)
+    ]
+    ranks = (rank_in(a, b), rank_in(b, a)) if give_ranks else (None, None)
+    got = intersect(a, b, *ranks)
+    assert sorted(zip(*(x.tolist() for x in got), strict=True)) == sorted(want)
+    assert got[0].tolist() == sorted(got[0].tolist())  # in time order

@@ -18,7 +18,7 @@ from ._effective import (
     effective_on,
     leg_has_timing,
 )
-from ._intervals import Intervals, intersect
+from ._intervals import Intervals, intersect, rank_in
 
 __all__ = [
     "DEAD_TIME",
@@ -67,14 +67,20 @@ class Handovers:
         )
 
 
-def handovers(turning_on: Intervals, turning_off: Intervals, direction: Direction) -> Handovers:
+def handovers(
+    turning_on: Intervals,
+    turning_off: Intervals,
+    direction: Direction,
+    on_in_off: np.ndarray | None = None,
+) -> Handovers:
     """Every turn-on of one switch whose latest preceding event is the complement's
     turn-off. Turn-ons while the complement still conducts are shoot-through, not
     hand-overs, and are left out here.
 
     One search per turn-on finds the complement's last interval starting at or before
     it; if that interval has ended by then, its end is the latest complement turn-off
-    (intervals are disjoint, so the next one starts later still).
+    (intervals are disjoint, so the next one starts later still). ``on_in_off`` is
+    ``rank_in(turning_on, turning_off)`` when the caller has it already.
     """
     first = 1 if turning_on.clipped_start else 0
     on_t = turning_on.starts[first:]
@@ -82,7 +88,7 @@ def handovers(turning_on: Intervals, turning_off: Intervals, direction: Directio
     if on_t.size == 0 or n_off == 0 or (n_off == 1 and turning_off.clipped_end):
         empty = np.empty(0, dtype=np.int64)
         return Handovers(direction, empty, empty, turning_off, turning_on)
-    k = np.searchsorted(turning_off.starts, on_t, side="right") - 1
+    k = (rank_in(turning_on, turning_off) if on_in_off is None else on_in_off)[first:] - 1
     np.maximum(k, 0, out=k)  # k = -1 (no complement interval yet) fails the test below
     gap = on_t - turning_off.ends[k]
     valid = (gap >= 0) & (turning_off.starts[k] <= on_t)
@@ -115,27 +121,34 @@ def _on(ctx: CheckContext, channel: str, kind: str) -> Intervals:
     return ctx.on(channel) if kind == COMMANDED else effective_on(ctx, channel)
 
 
+def _leg_conduction(ctx: CheckContext, leg: Leg, kind: str) -> tuple[tuple, tuple]:
+    """The leg's high/low overlaps (``intersect``) and its hand-overs in both directions,
+    computed once per run from one search of each side's starts among the other's."""
+    key = ("conduction", leg.name, kind)
+    if key not in ctx.cache:
+        high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
+        high_in_low, low_in_high = rank_in(high, low), rank_in(low, high)
+        ctx.cache[key] = (
+            intersect(high, low, high_in_low, low_in_high),
+            (
+                handovers(low, high, Direction.HIGH_TO_LOW, low_in_high),
+                handovers(high, low, Direction.LOW_TO_HIGH, high_in_low),
+            ),
+        )
+    return ctx.cache[key]
+
+
 def _leg_handovers(
     ctx: CheckContext, leg: Leg, kind: str = COMMANDED
 ) -> tuple[Handovers, Handovers]:
-    key = ("handovers", leg.name) if kind == COMMANDED else ("handovers", leg.name, kind)
-    if key not in ctx.cache:
-        high, low = _on(ctx, leg.high, kind), _on(ctx, leg.low, kind)
-        ctx.cache[key] = (
-            handovers(low, high, Direction.HIGH_TO_LOW),
-            handovers(high, low, Direction.LOW_TO_HIGH),
-        )
-    return ctx.cache[key]
+    return _leg_conduction(ctx, leg, kind)[1]
 
 
 def _overlaps(
     ctx: CheckContext, leg: Leg, kind: str
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
     """``intersect`` of the leg's high- and low-side intervals, computed once per run."""
-    key = ("overlaps", leg.name, kind)
-    if key not in ctx.cache:
-        ctx.cache[key] = intersect(_on(ctx, leg.high, kind), _on(ctx, leg.low, kind))
-    return ctx.cache[key]
+    return _leg_conduction(ctx, leg, kind)[0]
 
 
 def _check_shoot_through(ctx: CheckContext) -> RuleResult:
