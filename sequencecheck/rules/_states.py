@@ -433,11 +433,17 @@ def _held_runs(
     first = np.ones(exact.size, dtype=bool)
     np.not_equal(held[1:], held[:-1], out=first[1:])
     heads = np.flatnonzero(first)
-    seg_heads = exact[heads]
-    run_s = starts[seg_heads]
-    run_e = np.concatenate((starts[seg_heads[1:]], ends[-1:]))  # segments abut
-    last_exact = exact[np.concatenate((heads[1:] - 1, [exact.size - 1]))]
-    return Segments(run_s, run_e, held[heads].astype(np.int32, copy=False), run_s, ends[last_exact])
+    # runs abut: each ends where the next starts, so starts and ends are two views of one
+    # buffer (the last run ends with the window)
+    bounds = np.empty(heads.size + 1, dtype=np.int64)
+    np.take(starts, exact[heads], out=bounds[:-1])
+    bounds[-1] = ends[-1]
+    run_s, run_e = bounds[:-1], bounds[1:]
+    last_exact = np.empty(heads.size, dtype=np.int64)  # the last exact segment of each run
+    np.subtract(heads[1:], 1, out=last_exact[:-1])
+    last_exact[-1] = exact.size - 1
+    core_e = ends[exact[last_exact]]
+    return Segments(run_s, run_e, held[heads].astype(np.int32, copy=False), run_s, core_e)
 
 
 #: Per leg of the fast decoder: 3 * high-side state + low-side state, each state
@@ -474,23 +480,29 @@ def _keyed_segments(trace: Trace, bridge: Bridge) -> tuple[np.ndarray, np.ndarra
     all_deltas = np.concatenate(deltas)
     del times, deltas, state  # free what is no longer needed before the big arrays
     order = np.argsort(all_times, kind="stable")
-    t = all_times[order]
+    n = all_times.size
+    # the sorted times and keys go straight into the buffers the segments will use, and
+    # are compacted there (fewer large arrays alive at once: less memory to fault in)
+    bounds = np.empty(n + 2, dtype=np.int64)
+    t = bounds[1 : n + 1]
+    np.take(all_times, order, out=t)
     del all_times
-    keys = all_deltas[order]  # int32: keys stay below 9**_FAST_MAX_LEGS
+    seg_keys = np.empty(n + 1, dtype=np.int32)  # int32: keys stay below 9**_FAST_MAX_LEGS
+    keys = seg_keys[1:]
+    np.take(all_deltas, order, out=keys)
     del order, all_deltas
     np.cumsum(keys, out=keys)
     keys += key0
-    last = np.ones(t.size, dtype=bool)  # the last edge at each distinct time
+    last = np.ones(n, dtype=bool)  # the last edge at each distinct time
     np.not_equal(t[1:], t[:-1], out=last[:-1])
     n_cuts = int(np.count_nonzero(last))
     # cut i (the i-th distinct edge time) goes to index i + 1 of one buffer: segments'
     # starts and ends are two overlapping views of it, so neither is a copy
-    bounds = np.empty(n_cuts + 2, dtype=np.int64)
-    np.compress(last, t, out=bounds[1 : n_cuts + 1])
-    del t
-    seg_keys = np.empty(n_cuts + 1, dtype=np.int32)
-    np.compress(last, keys, out=seg_keys[1:])
-    del keys, last
+    if n_cuts < n:  # compact in place (numpy copies the source first where they overlap)
+        np.compress(last, t, out=bounds[1 : n_cuts + 1])
+        np.compress(last, keys, out=seg_keys[1 : n_cuts + 1])
+        bounds, seg_keys = bounds[: n_cuts + 2], seg_keys[: n_cuts + 1]
+    del t, keys, last
     cut_t = bounds[1 : n_cuts + 1]
     lo = int(np.searchsorted(cut_t, start, side="right"))  # edges up to start: first segment
     hi = int(np.searchsorted(cut_t, end, side="left"))  # edges at or after end: none
