@@ -2,17 +2,23 @@
 
 Each distinct crash (exception type, message shape, innermost sequencecheck frame) is
 kept once under ``out/crashes`` with the input that caused it; ``summary.txt`` is
-rewritten every few seconds so a long campaign can be watched.
+rewritten every few seconds so a long campaign can be watched. ``run`` is the command
+line the harnesses share.
 """
 
 from __future__ import annotations
 
+import argparse
 import hashlib
+import os
 import re
+import shutil
 import sys
+import tempfile
 import time
 import traceback
 from collections import Counter
+from collections.abc import Callable
 from pathlib import Path
 
 
@@ -68,3 +74,62 @@ class Campaign:
             self._last_summary = time.monotonic()
             self.out.mkdir(parents=True, exist_ok=True)
             (self.out / "summary.txt").write_text(self.summary_text())
+
+
+def run(
+    campaign: Campaign,
+    description: str,
+    *,
+    minutes: float,
+    out: Path,
+    scratch_prefix: str,
+    max_len: int,
+    prepare: Callable[[str], None],
+    test_one_input: Callable[[bytes], None],
+    instrument: Callable[[], None],
+    seed: Callable[[Path], None],
+) -> None:
+    """The command line every harness shares: ``--minutes``, ``--out``, ``--replay DIR``
+    (run each ``*.bin`` once and stop) and libFuzzer arguments after ``--``.
+
+    ``prepare`` gets a fresh scratch folder (in /dev/shm where there is one), removed at
+    the end; ``instrument`` imports the code to cover inside atheris' instrumentation;
+    ``seed`` writes the starting corpus into the folder it is given.
+    """
+    parser = argparse.ArgumentParser(description=description)
+    parser.add_argument("--minutes", type=float, default=minutes, help="campaign length")
+    parser.add_argument("--out", default=str(out), help="crashes, corpus and summary")
+    parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
+    args, extra = parser.parse_known_args()
+    campaign.out = Path(args.out)
+    scratch = tempfile.mkdtemp(
+        prefix=scratch_prefix, dir="/dev/shm" if os.path.isdir("/dev/shm") else None
+    )
+    prepare(scratch)
+    campaign.started = time.monotonic()
+    try:
+        if args.replay:
+            for p in sorted(Path(args.replay).glob("*.bin")):
+                test_one_input(p.read_bytes())
+            return
+        import atheris
+
+        with atheris.instrument_imports():
+            instrument()
+        corpus = campaign.out / "corpus"
+        corpus.mkdir(parents=True, exist_ok=True)
+        seed(corpus)
+        libfuzzer = [
+            sys.argv[0],
+            f"-max_total_time={int(args.minutes * 60)}",
+            f"-max_len={max_len}",
+            "-timeout=20",
+            "-rss_limit_mb=4096",
+            *[a for a in extra if a != "--"],
+            str(corpus),
+        ]
+        atheris.Setup(libfuzzer, test_one_input)
+        atheris.Fuzz()  # libFuzzer ends the process itself when time is up
+    finally:
+        print(campaign.summary_text(), file=sys.stderr)
+        shutil.rmtree(scratch, ignore_errors=True)

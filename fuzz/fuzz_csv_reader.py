@@ -18,12 +18,8 @@ Extra arguments after ``--`` go to libFuzzer (e.g. ``-- -max_len=4096``).
 
 from __future__ import annotations
 
-import argparse
 import os
-import shutil
 import sys
-import tempfile
-import time
 import warnings
 from pathlib import Path
 
@@ -32,7 +28,7 @@ ROOT = HERE.parent
 sys.path.insert(0, str(ROOT))
 sys.path.insert(0, str(HERE))
 
-from _campaign import Campaign  # noqa: E402
+from _campaign import Campaign, run  # noqa: E402
 
 SEEDS = [
     b"time_ns,AH,AL\n0,0,1\n100,0,0\n250,1,0\n400,0,0\n500,0,1\n",
@@ -89,50 +85,36 @@ def test_one_input(data: bytes) -> None:
     CAMPAIGN.tick()
 
 
-def main() -> None:
+def _prepare(folder: str) -> None:
     global _scratch
-    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--minutes", type=float, default=10.0, help="campaign length")
-    parser.add_argument("--out", default=str(HERE / "out"), help="crashes, corpus and summary")
-    parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
-    args, extra = parser.parse_known_args()
-    CAMPAIGN.out = Path(args.out)
-    scratch_dir = tempfile.mkdtemp(
-        prefix="fuzz-csv-", dir="/dev/shm" if os.path.isdir("/dev/shm") else None
+    _scratch = os.path.join(folder, "input.csv")
+
+
+def _instrument() -> None:
+    import sequencecheck.readers._csv  # noqa: F401
+
+
+def _seed(corpus: Path) -> None:
+    for i, seed in enumerate(SEEDS):
+        for flag in (0, 1, 2, 4, 8):
+            (corpus / f"seed-{i}-{flag}").write_bytes(bytes([flag]) + seed)
+    for sample in sorted((ROOT / "samples").glob("*_changes.csv")):
+        (corpus / f"sample-{sample.stem}").write_bytes(b"\0" + sample.read_bytes()[:4000])
+
+
+def main() -> None:
+    run(
+        CAMPAIGN,
+        __doc__.splitlines()[0],
+        minutes=10.0,
+        out=HERE / "out",
+        scratch_prefix="fuzz-csv-",
+        max_len=8192,
+        prepare=_prepare,
+        test_one_input=test_one_input,
+        instrument=_instrument,
+        seed=_seed,
     )
-    _scratch = os.path.join(scratch_dir, "input.csv")
-    CAMPAIGN.started = time.monotonic()
-    try:
-        if args.replay:
-            for p in sorted(Path(args.replay).glob("*.bin")):
-                test_one_input(p.read_bytes())
-            return
-        import atheris
-
-        with atheris.instrument_imports():
-            import sequencecheck.readers._csv  # noqa: F401
-
-        corpus = CAMPAIGN.out / "corpus"
-        corpus.mkdir(parents=True, exist_ok=True)
-        for i, seed in enumerate(SEEDS):
-            for flag in (0, 1, 2, 4, 8):
-                (corpus / f"seed-{i}-{flag}").write_bytes(bytes([flag]) + seed)
-        for sample in sorted((ROOT / "samples").glob("*_changes.csv")):
-            (corpus / f"sample-{sample.stem}").write_bytes(b"\0" + sample.read_bytes()[:4000])
-        libfuzzer = [
-            sys.argv[0],
-            f"-max_total_time={int(args.minutes * 60)}",
-            "-max_len=8192",
-            "-timeout=20",
-            "-rss_limit_mb=4096",
-            *[a for a in extra if a != "--"],
-            str(corpus),
-        ]
-        atheris.Setup(libfuzzer, test_one_input)
-        atheris.Fuzz()  # libFuzzer ends the process itself when time is up
-    finally:
-        print(CAMPAIGN.summary_text(), file=sys.stderr)
-        shutil.rmtree(scratch_dir, ignore_errors=True)
 
 
 if __name__ == "__main__":

@@ -15,11 +15,9 @@ once in ``--out``/crashes with its input, and the campaign goes on.
 
 from __future__ import annotations
 
-import argparse
 import os
 import shutil
 import sys
-import tempfile
 import time
 import warnings
 from pathlib import Path
@@ -29,7 +27,7 @@ ROOT = HERE.parent
 sys.path.insert(0, str(ROOT))
 sys.path.insert(0, str(HERE))
 
-from _campaign import Campaign  # noqa: E402
+from _campaign import Campaign, run  # noqa: E402
 
 SLOW = 2.0  # seconds one input may take
 TABLE = b'include "input.bridge"\n0 mode coast\n+1us AL=on BL=on\n+2us AL=off\n+500ns AH=on\n'
@@ -89,58 +87,45 @@ def test_one_input(data: bytes) -> None:
     CAMPAIGN.tick()
 
 
-def main() -> None:
+def _prepare(folder: str) -> None:
     global _folder
-    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--minutes", type=float, default=5.0, help="campaign length")
-    parser.add_argument("--out", default=str(HERE / "out-table"), help="crashes, corpus, summary")
-    parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
-    args, extra = parser.parse_known_args()
-    CAMPAIGN.out = Path(args.out)
-    _folder = tempfile.mkdtemp(
-        prefix="fuzz-table-", dir="/dev/shm" if os.path.isdir("/dev/shm") else None
+    _folder = folder
+    shutil.copy(ROOT / "samples" / "cart.bridge", os.path.join(folder, "drive.bridge"))
+
+
+def _instrument() -> None:
+    import lark  # noqa: F401
+
+    import sequencecheck.language._loader
+    import sequencecheck.language._statements  # noqa: F401
+
+
+def _seed(corpus: Path) -> None:
+    for i, seed in enumerate(SEEDS):
+        (corpus / f"seed-table-{i}").write_bytes(b"\0" + seed)
+    for i, seed in enumerate(BRIDGE_SEEDS):
+        (corpus / f"seed-bridge-{i}").write_bytes(b"\1" + seed)
+    for sample in sorted((ROOT / "samples").glob("*.steps")):
+        text = sample.read_bytes().replace(b'"cart.bridge"', b'"drive.bridge"')
+        (corpus / f"sample-{sample.stem}").write_bytes(b"\0" + text)
+    (corpus / "sample-cart-bridge").write_bytes(
+        b"\1" + (ROOT / "samples" / "cart.bridge").read_bytes()
     )
-    shutil.copy(ROOT / "samples" / "cart.bridge", os.path.join(_folder, "drive.bridge"))
-    CAMPAIGN.started = time.monotonic()
-    try:
-        if args.replay:
-            for p in sorted(Path(args.replay).glob("*.bin")):
-                test_one_input(p.read_bytes())
-            return
-        import atheris
 
-        with atheris.instrument_imports():
-            import lark  # noqa: F401
 
-            import sequencecheck.language._loader
-            import sequencecheck.language._statements  # noqa: F401
-
-        corpus = CAMPAIGN.out / "corpus"
-        corpus.mkdir(parents=True, exist_ok=True)
-        for i, seed in enumerate(SEEDS):
-            (corpus / f"seed-table-{i}").write_bytes(b"\0" + seed)
-        for i, seed in enumerate(BRIDGE_SEEDS):
-            (corpus / f"seed-bridge-{i}").write_bytes(b"\1" + seed)
-        for sample in sorted((ROOT / "samples").glob("*.steps")):
-            text = sample.read_bytes().replace(b'"cart.bridge"', b'"drive.bridge"')
-            (corpus / f"sample-{sample.stem}").write_bytes(b"\0" + text)
-        (corpus / "sample-cart-bridge").write_bytes(
-            b"\1" + (ROOT / "samples" / "cart.bridge").read_bytes()
-        )
-        libfuzzer = [
-            sys.argv[0],
-            f"-max_total_time={int(args.minutes * 60)}",
-            "-max_len=4096",
-            "-timeout=20",
-            "-rss_limit_mb=4096",
-            *[a for a in extra if a != "--"],
-            str(corpus),
-        ]
-        atheris.Setup(libfuzzer, test_one_input)
-        atheris.Fuzz()
-    finally:
-        print(CAMPAIGN.summary_text(), file=sys.stderr)
-        shutil.rmtree(_folder, ignore_errors=True)
+def main() -> None:
+    run(
+        CAMPAIGN,
+        __doc__.splitlines()[0],
+        minutes=5.0,
+        out=HERE / "out-table",
+        scratch_prefix="fuzz-table-",
+        max_len=4096,
+        prepare=_prepare,
+        test_one_input=test_one_input,
+        instrument=_instrument,
+        seed=_seed,
+    )
 
 
 if __name__ == "__main__":

@@ -15,12 +15,8 @@ Each distinct crash kind is recorded once in ``<out>/crashes`` with its input.
 
 from __future__ import annotations
 
-import argparse
 import os
-import shutil
 import sys
-import tempfile
-import time
 import warnings
 from pathlib import Path
 
@@ -29,7 +25,7 @@ ROOT = HERE.parent
 sys.path.insert(0, str(ROOT))
 sys.path.insert(0, str(HERE))
 
-from _campaign import Campaign  # noqa: E402
+from _campaign import Campaign, run  # noqa: E402
 
 SEEDS = [
     b"$timescale 1 ns $end\n$scope module pump $end\n$var wire 1 ! AH $end\n"
@@ -123,50 +119,36 @@ def _diff(a: tuple, b: tuple) -> str:
     return "other rows/span" if a[1:4] != b[1:4] else "other edges"
 
 
-def main() -> None:
+def _prepare(folder: str) -> None:
     global _scratch
-    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--minutes", type=float, default=5.0, help="campaign length")
-    parser.add_argument("--out", default=str(HERE / "out-vcd"), help="crashes, corpus, summary")
-    parser.add_argument("--replay", metavar="DIR", help="run each *.bin in DIR once and stop")
-    args, extra = parser.parse_known_args()
-    CAMPAIGN.out = Path(args.out)
-    scratch_dir = tempfile.mkdtemp(
-        prefix="fuzz-vcd-", dir="/dev/shm" if os.path.isdir("/dev/shm") else None
+    _scratch = os.path.join(folder, "input.vcd")
+
+
+def _instrument() -> None:
+    import sequencecheck.readers._vcd
+    import sequencecheck.readers._vcd_body
+    import sequencecheck.readers._vcd_header  # noqa: F401
+
+
+def _seed(corpus: Path) -> None:
+    for i, seed in enumerate(SEEDS):
+        for flag in (0, 1, 2, 3, 4, 12, 16, 17):
+            (corpus / f"seed-{i}-{flag}").write_bytes(bytes([flag]) + seed)
+
+
+def main() -> None:
+    run(
+        CAMPAIGN,
+        __doc__.splitlines()[0],
+        minutes=5.0,
+        out=HERE / "out-vcd",
+        scratch_prefix="fuzz-vcd-",
+        max_len=4096,
+        prepare=_prepare,
+        test_one_input=test_one_input,
+        instrument=_instrument,
+        seed=_seed,
     )
-    _scratch = os.path.join(scratch_dir, "input.vcd")
-    CAMPAIGN.started = time.monotonic()
-    try:
-        if args.replay:
-            for p in sorted(Path(args.replay).glob("*.bin")):
-                test_one_input(p.read_bytes())
-            return
-        import atheris
-
-        with atheris.instrument_imports():
-            import sequencecheck.readers._vcd
-            import sequencecheck.readers._vcd_body
-            import sequencecheck.readers._vcd_header  # noqa: F401
-
-        corpus = CAMPAIGN.out / "corpus"
-        corpus.mkdir(parents=True, exist_ok=True)
-        for i, seed in enumerate(SEEDS):
-            for flag in (0, 1, 2, 3, 4, 12, 16, 17):
-                (corpus / f"seed-{i}-{flag}").write_bytes(bytes([flag]) + seed)
-        libfuzzer = [
-            sys.argv[0],
-            f"-max_total_time={int(args.minutes * 60)}",
-            "-max_len=4096",
-            "-timeout=20",
-            "-rss_limit_mb=4096",
-            *[a for a in extra if a != "--"],
-            str(corpus),
-        ]
-        atheris.Setup(libfuzzer, test_one_input)
-        atheris.Fuzz()
-    finally:
-        print(CAMPAIGN.summary_text(), file=sys.stderr)
-        shutil.rmtree(scratch_dir, ignore_errors=True)
 
 
 if __name__ == "__main__":
